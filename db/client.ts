@@ -1,0 +1,106 @@
+import fs from 'node:fs';
+import path from 'node:path';
+import { PGlite } from '@electric-sql/pglite';
+import { drizzle as drizzlePglite, type PgliteDatabase } from 'drizzle-orm/pglite';
+import { drizzle as drizzlePg } from 'drizzle-orm/node-postgres';
+import pg from 'pg';
+import * as schema from './schema';
+import { env } from '@/lib/env';
+
+/** The one database type the app codes against; PGlite and node-postgres expose the same query API. */
+export type Db = PgliteDatabase<typeof schema>;
+export type Tx = Parameters<Parameters<Db['transaction']>[0]>[0];
+/** A database or an open transaction: data-access functions accept either. */
+export type DbOrTx = Db | Tx;
+
+type Handle = { db: Db; close: () => Promise<void>; kind: 'pglite' | 'postgres' };
+
+const globalForDb = globalThis as unknown as { __countersampleDb?: Handle };
+
+/**
+ * PGlite has no lock of its own: two processes on one folder both "work" and lose writes.
+ * A lock file with our pid refuses a second process, and a stale lock (dead pid) is taken over.
+ */
+function takeLock(dataDir: string): () => void {
+  const lockPath = `${path.resolve(dataDir)}.lock`;
+  fs.mkdirSync(path.dirname(lockPath), { recursive: true });
+  for (let attempt = 0; attempt < 2; attempt++) {
+    try {
+      fs.writeFileSync(lockPath, String(process.pid), { flag: 'wx' });
+      const release = () => {
+        try {
+          if (fs.readFileSync(lockPath, 'utf8') === String(process.pid)) fs.unlinkSync(lockPath);
+        } catch {
+          // Already gone.
+        }
+      };
+      process.once('exit', release);
+      return release;
+    } catch (error) {
+      if ((error as NodeJS.ErrnoException).code !== 'EEXIST') throw error;
+      const holder = Number(fs.readFileSync(lockPath, 'utf8'));
+      if (holder === process.pid) return () => {};
+      if (Number.isInteger(holder) && holder > 0 && isAlive(holder)) {
+        throw new Error(
+          `The embedded database in ${dataDir} is in use by process ${holder}. Stop it first, or use a PostgreSQL server (DATABASE_URL) for several processes.`,
+        );
+      }
+      fs.unlinkSync(lockPath);
+    }
+  }
+  throw new Error(`Could not lock the embedded database in ${dataDir}.`);
+}
+
+function isAlive(pid: number): boolean {
+  try {
+    process.kill(pid, 0);
+    return true;
+  } catch (error) {
+    return (error as NodeJS.ErrnoException).code === 'EPERM';
+  }
+}
+
+function open(): Handle {
+  if (process.env.NEXT_PHASE === 'phase-production-build') {
+    throw new Error('The database was touched during `next build`; routes that read it must be dynamic.');
+  }
+  const settings = env();
+  if (settings.DATABASE_URL) {
+    const pool = new pg.Pool({ connectionString: settings.DATABASE_URL, max: 10 });
+    const db = drizzlePg(pool, { schema }) as unknown as Db;
+    return { db, kind: 'postgres', close: () => pool.end() };
+  }
+  const dataDir = settings.PGLITE_DIR;
+  const inMemory = dataDir.startsWith('memory://');
+  const release = inMemory ? () => {} : takeLock(dataDir);
+  if (!inMemory) fs.mkdirSync(dataDir, { recursive: true });
+  const client = new PGlite(inMemory ? undefined : dataDir);
+  const db = drizzlePglite(client, { schema });
+  return {
+    db,
+    kind: 'pglite',
+    close: async () => {
+      await client.close();
+      release();
+    },
+  };
+}
+
+/** The process-wide database, opened on first use (never at import: `next build` imports route modules). */
+export function getDb(): Db {
+  globalForDb.__countersampleDb ??= open();
+  return globalForDb.__countersampleDb.db;
+}
+
+export function databaseKind(): Handle['kind'] {
+  globalForDb.__countersampleDb ??= open();
+  return globalForDb.__countersampleDb.kind;
+}
+
+export async function closeDb(): Promise<void> {
+  const handle = globalForDb.__countersampleDb;
+  globalForDb.__countersampleDb = undefined;
+  await handle?.close();
+}
+
+export { schema };

@@ -1,0 +1,27 @@
+import { sql } from 'drizzle-orm';
+import { check, index, integer, pgTable, text, timestamp, uuid } from 'drizzle-orm/pg-core';
+
+export const mailStatuses = ['queued', 'sent', 'failed'] as const;
+export type MailStatus = (typeof mailStatuses)[number];
+
+/** Every e-mail the product sends, with its delivery status; a failed one is retried by the scheduled job. */
+export const outgoingMail = pgTable(
+  'outgoing_mail',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    to: text('to').array().notNull(),
+    subject: text('subject').notNull(),
+    template: text('template').notNull(),
+    caseId: uuid('case_id'),
+    status: text('status').$type<MailStatus>().notNull().default('queued'),
+    attempts: integer('attempts').notNull().default(0),
+    lastError: text('last_error'),
+    messageId: text('message_id'),
+    createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+    sentAt: timestamp('sent_at', { withTimezone: true }),
+  },
+  (t) => [
+    index('outgoing_mail_status_idx').on(t.status, t.createdAt),
+    check('outgoing_mail_status_check', sql`${t.status} in ('queued', 'sent', 'failed')`),
+  ],
+);

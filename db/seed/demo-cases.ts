@@ -1,0 +1,243 @@
+import { addBusinessDays } from 'date-fns';
+import type { Db } from '@/db/client';
+import { calibrationCheck, custodyEvent, decision, disputeCase, measurementSet, note, reading, type CaseStatus, type DisputeGround } from '@/db/schema';
+import { assess, calibrationCheck as checkCalibration, finalResult } from '@/lib/arbitration';
+import { recordAudit } from '@/lib/audit/record';
+import { assessmentRules } from '@/lib/rules/to-assessment';
+import type { SchemeRules } from '@/lib/rules/schema';
+import { toTenthMilliC } from '@/lib/temperature';
+import type { SeededDelivery } from './demo-deliveries';
+
+const HOUR = 3_600_000;
+
+type Party = { userId: string; organisationId: string };
+export type CaseParties = {
+  supplierUsers: Record<string, Party>;
+  plant: Party;
+  lab: Party & { instrumentId: string };
+  arbiter: Party & { name: string };
+  rulesVersionId: string;
+  rules: SchemeRules;
+};
+
+export type DemoCasePlan = {
+  deliveryKey: string;
+  sequence: number;
+  status: CaseStatus;
+  supplierKey: string;
+  grounds: DisputeGround[];
+  explanation: string;
+  remedy: string;
+  openedAfterNoticeHours: number;
+  retestReadings?: number[];
+  decision?: { outcome: 'uphold' | 'reverse' | 'adjust'; reasons: string };
+  notes?: { author: 'supplier' | 'plant' | 'lab' | 'arbiter'; text: string; visibility: 'parties' | 'internal' }[];
+};
+
+function doc(text: string) {
+  return { type: 'doc', content: [{ type: 'paragraph', content: [{ type: 'text', text }] }] };
+}
+
+const stageOrder: CaseStatus[] = ['open', 'awaiting_sample', 'retest', 'review', 'decided'];
+function reached(status: CaseStatus, stage: CaseStatus): boolean {
+  if (status === 'withdrawn') return stage === 'open';
+  return stageOrder.indexOf(status) >= stageOrder.indexOf(stage);
+}
+
+/** Builds one case to the stage its plan names, with custody, the retest and the audit trail that stage implies. */
+export async function seedCase(db: Db, plan: DemoCasePlan, load: SeededDelivery, parties: CaseParties, now: Date): Promise<string> {
+  const supplier = parties.supplierUsers[plan.supplierKey];
+  const noticeAt = load.notifiedAt ?? load.testedAt;
+  const openedAt = new Date(noticeAt.getTime() + plan.openedAfterNoticeHours * HOUR);
+  const dispatchedAt = new Date(openedAt.getTime() + 1.5 * HOUR);
+  const receivedAt = new Date(dispatchedAt.getTime() + 3 * HOUR);
+  const retestAt = new Date(receivedAt.getTime() + 5 * HOUR);
+  const decidedAt = addBusinessDays(retestAt, 3);
+  const clamp = (d: Date) => (d.getTime() > now.getTime() - 10 * 60_000 ? new Date(now.getTime() - 10 * 60_000) : d);
+  const caseId = crypto.randomUUID();
+  const number = `CS-${openedAt.getUTCFullYear()}-${String(plan.sequence).padStart(4, '0')}`;
+  const rules = parties.rules;
+  const audit = (actor: Party, at: Date) => ({ actorUserId: actor.userId, actorOrganisationId: actor.organisationId, origin: 'demo seed', at });
+
+  await db.insert(disputeCase).values({
+    id: caseId,
+    number,
+    year: openedAt.getUTCFullYear(),
+    sequence: plan.sequence,
+    deliveryId: load.deliveryId,
+    intakeResultId: load.intakeResultId,
+    supplierOrganisationId: load.farm.organisationId,
+    plantOrganisationId: parties.plant.organisationId,
+    labOrganisationId: parties.lab.organisationId,
+    boardOrganisationId: parties.arbiter.organisationId,
+    rulesVersionId: parties.rulesVersionId,
+    status: plan.status,
+    grounds: plan.grounds,
+    explanation: plan.explanation,
+    remedy: plan.remedy,
+    openedBy: supplier.userId,
+    openedAt,
+    dispatchDueAt: new Date(openedAt.getTime() + rules.deadlines.dispatchHours * HOUR),
+    sampleValidUntil: new Date(load.collectedAt.getTime() + rules.sample.validHours * HOUR),
+    retestSubmittedAt: reached(plan.status, 'review') ? retestAt : null,
+    decisionDueAt: reached(plan.status, 'review') ? addBusinessDays(retestAt, rules.deadlines.decisionWorkingDays) : null,
+    decidedAt: plan.status === 'decided' ? decidedAt : null,
+    withdrawnAt: plan.status === 'withdrawn' ? clamp(new Date(openedAt.getTime() + 3 * HOUR)) : null,
+    updatedAt: now,
+  });
+  await recordAudit(db, audit(supplier, openedAt), {
+    action: 'case.opened',
+    objectType: 'case',
+    objectId: caseId,
+    caseId,
+    change: { number, status: 'open' },
+  });
+
+  const retained = load.retainedSampleId!;
+  const custody: (typeof custodyEvent.$inferInsert)[] = [
+    { sampleId: retained, kind: 'sealed', at: load.collectedAt, organisationId: parties.plant.organisationId, actorUserId: parties.plant.userId, location: 'Farm tank, by the tanker driver', sealIntact: true },
+    { sampleId: retained, kind: 'stored', at: load.receivedAt, organisationId: parties.plant.organisationId, actorUserId: parties.plant.userId, location: 'Retained-sample refrigerator B', tempTenthMilliC: toTenthMilliC(3.9), sealIntact: true, frozen: false },
+  ];
+
+  if (plan.status === 'withdrawn') {
+    await db.insert(custodyEvent).values(custody);
+    const withdrawnAt = clamp(new Date(openedAt.getTime() + 3 * HOUR));
+    await recordAudit(db, audit(supplier, withdrawnAt), {
+      action: 'case.transitioned',
+      objectType: 'case',
+      objectId: caseId,
+      caseId,
+      change: { from: 'open', to: 'withdrawn', transition: 'withdraw', detail: { reason: 'Settled directly with the plant after a herd check.' } },
+    });
+    return caseId;
+  }
+
+  if (reached(plan.status, 'awaiting_sample')) {
+    custody.push({ sampleId: retained, kind: 'dispatched', at: clamp(dispatchedAt), organisationId: parties.plant.organisationId, actorUserId: parties.plant.userId, location: 'Cool box 14 with data logger, by courier', tempTenthMilliC: toTenthMilliC(4.1), sealIntact: true, frozen: false });
+    await recordAudit(db, audit(parties.plant, clamp(dispatchedAt)), {
+      action: 'case.transitioned',
+      objectType: 'case',
+      objectId: caseId,
+      caseId,
+      change: { from: 'open', to: 'awaiting_sample', transition: 'dispatch', detail: { sealNumber: load.sealNumber } },
+    });
+  }
+  if (reached(plan.status, 'retest')) {
+    custody.push({ sampleId: retained, kind: 'received', at: clamp(receivedAt), organisationId: parties.lab.organisationId, actorUserId: parties.lab.userId, location: 'Sample reception, Eskmere', tempTenthMilliC: toTenthMilliC(4.6), sealIntact: true, frozen: false, note: 'Seal number matches the dispatch note; container undamaged.' });
+    await recordAudit(db, audit(parties.lab, clamp(receivedAt)), {
+      action: 'case.transitioned',
+      objectType: 'case',
+      objectId: caseId,
+      caseId,
+      change: { from: 'awaiting_sample', to: 'retest', transition: 'receive', detail: { sealIntact: true } },
+    });
+  }
+
+  let labCheck: { id: string; readings: number[] } | null = null;
+  if (reached(plan.status, 'review') && plan.retestReadings) {
+    const labCheckReadings = [-0.5121, -0.5118, -0.5124, -0.5119, -0.5122];
+    const verdict = checkCalibration({ nominal: rules.calibration.nominal, readings: labCheckReadings, tolerance: rules.calibration.tolerance, required: rules.calibration.required });
+    const checkedAt = new Date(retestAt.getTime() - 40 * 60_000);
+    const [check] = await db
+      .insert(calibrationCheck)
+      .values({
+        instrumentId: parties.lab.instrumentId,
+        checkedAt,
+        checkedBy: parties.lab.userId,
+        analystName: 'I. Halloran',
+        nominalTenthMilliC: toTenthMilliC(rules.calibration.nominal),
+        readingsTenthMilliC: labCheckReadings.map(toTenthMilliC),
+        toleranceTenthMilliC: toTenthMilliC(rules.calibration.tolerance),
+        required: rules.calibration.required,
+        within: verdict.within,
+        pass: verdict.pass,
+        validUntil: new Date(checkedAt.getTime() + rules.calibration.validHours * HOUR),
+        rulesVersionId: parties.rulesVersionId,
+      })
+      .returning({ id: calibrationCheck.id });
+    labCheck = { id: check.id, readings: labCheckReadings };
+    const outcome = finalResult(plan.retestReadings, rules.precision);
+    if (outcome.status !== 'accepted') throw new Error(`Demo retest readings of ${number} are not conclusive`);
+    const [set] = await db
+      .insert(measurementSet)
+      .values({
+        sampleId: retained,
+        caseId,
+        organisationId: parties.lab.organisationId,
+        instrumentId: parties.lab.instrumentId,
+        calibrationCheckId: check.id,
+        purpose: 'retest',
+        analystName: 'I. Halloran',
+        testedAt: retestAt,
+        sampleTempTenthMilliC: toTenthMilliC(20.1),
+        preparation: 'none',
+        resultTenthMilliC: toTenthMilliC(outcome.value),
+        resultBasis: outcome.basis,
+        readingsUsed: outcome.used,
+        createdBy: parties.lab.userId,
+        submittedAt: retestAt,
+      })
+      .returning({ id: measurementSet.id });
+    await db.insert(reading).values(plan.retestReadings.map((value, i) => ({ measurementSetId: set.id, position: i + 1, valueTenthMilliC: toTenthMilliC(value) })));
+    custody.push({ sampleId: retained, kind: 'opened', at: new Date(retestAt.getTime() - 20 * 60_000), organisationId: parties.lab.organisationId, actorUserId: parties.lab.userId, location: 'Cryoscopy bench 2', tempTenthMilliC: toTenthMilliC(4.4), sealIntact: true, frozen: false });
+    await recordAudit(db, audit(parties.lab, retestAt), {
+      action: 'case.transitioned',
+      objectType: 'case',
+      objectId: caseId,
+      caseId,
+      change: { from: 'retest', to: 'review', transition: 'submit_retest', detail: { readings: plan.retestReadings.length, result: outcome.value } },
+    });
+  }
+  await db.insert(custodyEvent).values(custody);
+
+  if (plan.status === 'decided' && plan.decision && plan.retestReadings && labCheck) {
+    const proposal = assess({
+      rules: assessmentRules(rules),
+      original: { readings: load.readings, testedAt: load.testedAt.toISOString(), calibration: { nominal: rules.calibration.nominal, readings: load.calibrationReadings } },
+      retest: {
+        readings: plan.retestReadings,
+        testedAt: retestAt.toISOString(),
+        calibration: { nominal: rules.calibration.nominal, readings: labCheck.readings },
+        sample: { sampledAt: load.collectedAt.toISOString(), sealIntact: true, frozen: false, custodyComplete: true, storageTemperatures: [3.9, 4.1, 4.6, 4.4] },
+      },
+    });
+    const followed = proposal.outcome === plan.decision.outcome;
+    await db.insert(decision).values({
+      caseId,
+      outcome: plan.decision.outcome,
+      reasons: plan.decision.reasons,
+      followedProposal: followed,
+      departureReason: followed ? null : 'The board weighed the herd history supplied by the supplier.',
+      proposal,
+      settlement: { note: 'Settlement figures are computed when the decision is signed in the product.' },
+      signerUserId: parties.arbiter.userId,
+      signerName: parties.arbiter.name,
+      signedAt: decidedAt,
+      signatureMeaning: 'binding decision',
+      reauthenticatedAt: decidedAt,
+      reauthenticationMethod: 'password',
+    });
+    await recordAudit(db, audit(parties.arbiter, decidedAt), {
+      action: 'case.transitioned',
+      objectType: 'case',
+      objectId: caseId,
+      caseId,
+      change: { from: 'review', to: 'decided', transition: 'decide', detail: { outcome: plan.decision.outcome } },
+    });
+  }
+
+  if (plan.notes?.length) {
+    const authorOf = { supplier, plant: parties.plant, lab: parties.lab, arbiter: parties.arbiter };
+    await db.insert(note).values(
+      plan.notes.map((n, i) => ({
+        caseId,
+        authorUserId: authorOf[n.author].userId,
+        organisationId: authorOf[n.author].organisationId,
+        visibility: n.visibility,
+        body: doc(n.text),
+        createdAt: clamp(new Date(openedAt.getTime() + (i + 1) * 2 * HOUR)),
+      })),
+    );
+  }
+  return caseId;
+}

@@ -1,0 +1,23 @@
+import { z } from 'zod';
+
+/**
+ * Every kind of audit event the product writes. Adding a kind here is how a new change becomes
+ * auditable; `change` holds what changed, never secrets (no passwords, tokens or hashes of them).
+ */
+const base = { objectId: z.string().min(1), caseId: z.uuid().optional() };
+
+export const auditEventSchema = z.discriminatedUnion('action', [
+  z.object({ ...base, action: z.literal('organisation.created'), objectType: z.literal('organisation'), change: z.object({ name: z.string(), kind: z.string() }) }),
+  z.object({ ...base, action: z.literal('invitation.created'), objectType: z.literal('invitation'), change: z.object({ email: z.string(), role: z.string(), organisationId: z.string() }) }),
+  z.object({ ...base, action: z.literal('invitation.revoked'), objectType: z.literal('invitation'), change: z.object({ email: z.string() }) }),
+  z.object({ ...base, action: z.literal('invitation.accepted'), objectType: z.literal('user'), change: z.object({ email: z.string(), role: z.string(), organisationId: z.string() }) }),
+  z.object({ ...base, action: z.literal('user.created'), objectType: z.literal('user'), change: z.object({ email: z.string(), role: z.string(), organisationId: z.string() }) }),
+  z.object({ ...base, action: z.literal('session.revoked'), objectType: z.literal('session'), change: z.object({ userId: z.string() }) }),
+  z.object({ ...base, action: z.literal('rules.version_created'), objectType: z.literal('scheme_rules'), change: z.object({ version: z.number(), effectiveFrom: z.string() }) }),
+  z.object({ ...base, action: z.literal('case.opened'), objectType: z.literal('case'), change: z.object({ number: z.string(), status: z.string() }) }),
+  z.object({ ...base, action: z.literal('case.transitioned'), objectType: z.literal('case'), change: z.object({ from: z.string(), to: z.string(), transition: z.string(), detail: z.record(z.string(), z.unknown()).optional() }) }),
+  z.object({ ...base, action: z.literal('demo.seeded'), objectType: z.literal('system'), change: z.object({ organisations: z.number(), deliveries: z.number(), cases: z.number() }) }),
+]);
+
+export type AuditEventInput = z.infer<typeof auditEventSchema>;
+export type AuditAction = AuditEventInput['action'];

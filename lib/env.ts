@@ -1,0 +1,52 @@
+import { z } from 'zod';
+
+const DEV_AUTH_SECRET = 'countersample-development-secret-not-for-production';
+
+const envSchema = z
+  .object({
+    APP_ENV: z.enum(['development', 'demo', 'test', 'production']).default('development'),
+    DATABASE_URL: z.url({ protocol: /^postgres(ql)?$/, error: 'must be a postgres:// or postgresql:// URL' }).optional(),
+    PGLITE_DIR: z.string().min(1).default('data/pglite'),
+    BETTER_AUTH_URL: z.url({ protocol: /^https?$/, error: 'must be an http(s) URL' }).default('http://localhost:3000'),
+    BETTER_AUTH_SECRET: z.string().min(32, 'must be at least 32 characters').default(DEV_AUTH_SECRET),
+    SMTP_URL: z.url({ protocol: /^smtps?$/, error: 'must be an smtp:// or smtps:// URL' }).default('smtp://127.0.0.1:1025'),
+    MAIL_FROM: z.string().min(3).default('Countersample <no-reply@countersample.test>'),
+    MAIL_CATCHER_URL: z.url({ protocol: /^https?$/ }).default('http://127.0.0.1:1080'),
+    DEMO_PASSWORD: z.string().min(12, 'must be at least 12 characters').default('countersample-demo'),
+  })
+  .superRefine((env, ctx) => {
+    if (env.APP_ENV === 'production' && env.BETTER_AUTH_SECRET === DEV_AUTH_SECRET) {
+      ctx.addIssue({ code: 'custom', path: ['BETTER_AUTH_SECRET'], message: 'must be set to a secret of your own in production' });
+    }
+  });
+
+export type Env = z.infer<typeof envSchema>;
+
+/** Thrown at start when a setting is wrong, naming each bad variable. */
+export class EnvError extends Error {
+  constructor(readonly problems: string[]) {
+    super(`Invalid settings:\n${problems.map((p) => `  - ${p}`).join('\n')}`);
+    this.name = 'EnvError';
+  }
+}
+
+export function parseEnv(source: Record<string, string | undefined>): Env {
+  // Empty strings in .env files mean "not set", not "set to nothing".
+  const cleaned = Object.fromEntries(Object.entries(source).filter(([, v]) => v !== undefined && v !== ''));
+  const result = envSchema.safeParse(cleaned);
+  if (!result.success) {
+    throw new EnvError(result.error.issues.map((i) => `${i.path.join('.') || '(settings)'}: ${i.message}`));
+  }
+  return result.data;
+}
+
+let cached: Env | undefined;
+
+export function env(): Env {
+  cached ??= parseEnv(process.env);
+  return cached;
+}
+
+export function outboxEnabled(): boolean {
+  return env().APP_ENV !== 'production';
+}

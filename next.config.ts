@@ -1,0 +1,22 @@
+import type { NextConfig } from 'next';
+
+const nextConfig: NextConfig = {
+  // PGlite ships its own WebAssembly and data files; bundling them breaks the first query.
+  serverExternalPackages: ['@electric-sql/pglite'],
+  poweredByHeader: false,
+  typedRoutes: false,
+  async headers() {
+    return [
+      {
+        source: '/:path*',
+        headers: [
+          { key: 'X-Content-Type-Options', value: 'nosniff' },
+          { key: 'Referrer-Policy', value: 'same-origin' },
+          { key: 'X-Frame-Options', value: 'DENY' },
+        ],
+      },
+    ];
+  },
+};
+
+export default nextConfig;
