@@ -85,7 +85,7 @@ export async function seedDemo(db: Db, options: { password: string; now?: Date; 
   const plant = await createOrganisation(db, demoOrganisations.plant);
   const lab = await createOrganisation(db, demoOrganisations.lab);
   const board = await createOrganisation(db, demoOrganisations.board);
-  const suppliers = [];
+  const suppliers: Awaited<ReturnType<typeof createOrganisation>>[] = [];
   for (const s of demoOrganisations.suppliers) suppliers.push(await createOrganisation(db, { name: s.name, kind: s.kind, contactEmail: s.contactEmail }));
 
   const rulesVersion = await createRulesVersion(db, { version: 1, effectiveFrom: new Date(now.getTime() - (days + 30) * DAY), note: 'Scheme rules agreed at the board’s founding meeting.' });

@@ -56,19 +56,7 @@ export function differenceWithin(a: number, b: number, limit: number): boolean {
 
 // ISO 5725-6:1994, Table 1: the critical range factor f(n), the 95 % quantile of the range of n
 // results from a normal distribution, in units of the standard deviation.
-const CRITICAL_RANGE_FACTORS: readonly number[] = [
-  Number.NaN,
-  Number.NaN,
-  2.8,
-  3.3,
-  3.6,
-  3.9,
-  4.0,
-  4.2,
-  4.3,
-  4.4,
-  4.5,
-];
+const CRITICAL_RANGE_FACTORS: readonly number[] = [Number.NaN, Number.NaN, 2.8, 3.3, 3.6, 3.9, 4.0, 4.2, 4.3, 4.4, 4.5];
 
 export function criticalRangeFactor(n: number): number {
   if (!Number.isInteger(n) || n < 2 || n > 10) {

@@ -7,10 +7,29 @@ const READING_RESOLUTION = 0.0001;
 const MAX_READINGS = 20;
 const MAX_STORAGE_LOG = 1000;
 
+/** An object that names unknown fields instead of silently dropping them: a typo must not pass as "absent". */
+function strictObject<Shape extends z.core.$ZodLooseShape>(shape: Shape) {
+  return z.strictObject(shape, {
+    error: (issue) => {
+      if (issue.code === 'unrecognized_keys') {
+        return (issue.keys.length === 1 ? 'unknown field: ' : 'unknown fields: ') + issue.keys.join(', ');
+      }
+      return issue.input === undefined ? 'required: an object' : 'must be an object';
+    },
+  });
+}
+
+/**
+ * Cross-field rules run only once the fields themselves are valid, so a reading out of range is
+ * reported once, for itself, and not again as a broken relation with its neighbour.
+ */
+function fieldsValid(payload: z.core.ParsePayload): boolean {
+  return payload.issues.length === 0;
+}
+
 function numberIn(unit: string) {
   return z.number({
-    error: (issue) =>
-      issue.input === undefined ? `required: a number in ${unit}` : `must be a number in ${unit}`,
+    error: (issue) => (issue.input === undefined ? `required: a number in ${unit}` : `must be a number in ${unit}`),
   });
 }
 
@@ -67,14 +86,12 @@ export const onDisagreementSchema = z.enum(['third_laboratory', 'referee_decides
   error: 'must be one of third_laboratory, referee_decides',
 });
 
-export const precisionSchema = z
-  .strictObject({
-    r: positiveCelsius(0.1).describe('Repeatability limit r, °C (ISO 5764: 0.004)'),
-    R: positiveCelsius(0.1).describe('Reproducibility limit R, °C (ISO 5764: 0.006)'),
-  })
-  .refine((p) => p.r <= p.R, { error: 'must not be below r', path: ['R'] });
+export const precisionSchema = strictObject({
+  r: positiveCelsius(0.1).describe('Repeatability limit r, °C (ISO 5764: 0.004)'),
+  R: positiveCelsius(0.1).describe('Reproducibility limit R, °C (ISO 5764: 0.006)'),
+}).refine((p) => p.r <= p.R, { error: 'must not be below r', path: ['R'], when: fieldsValid });
 
-export const calibrationRuleSchema = z.strictObject({
+export const calibrationRuleSchema = strictObject({
   tolerance: positiveCelsius(0.05).describe('Largest allowed |reading − standard|, °C'),
   required: z
     .number({ error: 'must be a whole number of readings' })
@@ -84,17 +101,16 @@ export const calibrationRuleSchema = z.strictObject({
     .describe('Readings that must lie within the tolerance'),
 });
 
-export const rulesSchema = z.strictObject({
+export const rulesSchema = strictObject({
   precision: precisionSchema,
-  limits: z
-    .strictObject({
-      upper: limitCelsius().describe('Upper freezing-point limit, °C; above it added water is suspected'),
-      lower: limitCelsius().optional().describe('Lower freezing-point limit, °C; below it added solutes are suspected'),
-    })
-    .refine((l) => l.lower === undefined || l.lower < l.upper, {
-      error: 'must be below the upper limit',
-      path: ['lower'],
-    }),
+  limits: strictObject({
+    upper: limitCelsius().describe('Upper freezing-point limit, °C; above it added water is suspected'),
+    lower: limitCelsius().optional().describe('Lower freezing-point limit, °C; below it added solutes are suspected'),
+  }).refine((l) => l.lower === undefined || l.lower < l.upper, {
+    error: 'must be below the upper limit',
+    path: ['lower'],
+    when: fieldsValid,
+  }),
   decisionRule: decisionRuleSchema,
   onDisagreement: onDisagreementSchema,
   referenceFreezingPoint: numberIn('°C')
@@ -108,64 +124,57 @@ export const rulesSchema = z.strictObject({
   sampleValidHours: numberIn('hours')
     .gt(0, { error: 'must be more than 0 hours' })
     .lte(720, { error: 'must be at most 720 hours' }),
-  storageRange: z
-    .strictObject({
-      min: numberIn('°C').gte(-50, { error: 'must be −50 °C or more' }).lte(50, { error: 'must be at most 50 °C' }),
-      max: numberIn('°C').gte(-50, { error: 'must be −50 °C or more' }).lte(50, { error: 'must be at most 50 °C' }),
-    })
-    .refine((s) => s.min <= s.max, { error: 'must not be below min', path: ['max'] }),
+  storageRange: strictObject({
+    min: numberIn('°C').gte(-50, { error: 'must be −50 °C or more' }).lte(50, { error: 'must be at most 50 °C' }),
+    max: numberIn('°C').gte(-50, { error: 'must be −50 °C or more' }).lte(50, { error: 'must be at most 50 °C' }),
+  }).refine((s) => s.min <= s.max, { error: 'must not be below min', path: ['max'], when: fieldsValid }),
 });
 
-export const calibrationCheckSchema = z.strictObject({
+export const calibrationCheckSchema = strictObject({
   nominal: freezingPoint().describe('Freezing point of the standard, °C, e.g. −0.512'),
   readings: readingList(1),
 });
 
-export const retainedSampleSchema = z.strictObject({
+export const retainedSampleSchema = strictObject({
   sampledAt: isoDateTime(),
   sealIntact: flag('the seal was intact on receipt'),
   frozen: flag('the sample had been frozen'),
   custodyComplete: flag('every hand-over is recorded'),
   storageTemperatures: z
-    .array(
-      numberIn('°C').gte(-50, { error: 'must be −50 °C or more' }).lte(50, { error: 'must be at most 50 °C' }),
-      { error: 'must be a list of temperatures in °C' },
-    )
+    .array(numberIn('°C').gte(-50, { error: 'must be −50 °C or more' }).lte(50, { error: 'must be at most 50 °C' }), {
+      error: 'must be a list of temperatures in °C',
+    })
     .min(1, { error: 'needs at least one recorded storage temperature' })
     .max(MAX_STORAGE_LOG, { error: `must hold at most ${MAX_STORAGE_LOG} temperatures` }),
 });
 
-export const assessmentInputSchema = z
-  .strictObject({
-    rules: rulesSchema,
-    original: z.strictObject({
-      readings: readingList(1),
-      testedAt: isoDateTime(),
-      calibration: calibrationCheckSchema.optional(),
-    }),
-    retest: z
-      .strictObject({
-        readings: readingList(0),
-        testedAt: isoDateTime(),
-        calibration: calibrationCheckSchema.optional(),
-        sample: retainedSampleSchema,
-      })
-      .refine((t) => Date.parse(t.testedAt) >= Date.parse(t.sample.sampledAt), {
-        error: 'must not be before retest.sample.sampledAt',
-        path: ['testedAt'],
-      })
-      .optional(),
-    intake: z
-      .strictObject({
-        addedWaterPercent: numberIn('%')
-          .gte(0, { error: 'must be 0 % or more' })
-          .lte(100, { error: 'must be at most 100 %' })
-          .optional()
-          .describe('Added water the intake result charged, %'),
-      })
-      .optional(),
+export const assessmentInputSchema = strictObject({
+  rules: rulesSchema,
+  original: strictObject({
+    readings: readingList(1),
+    testedAt: isoDateTime(),
+    calibration: calibrationCheckSchema.optional(),
+  }),
+  retest: strictObject({
+    readings: readingList(0),
+    testedAt: isoDateTime(),
+    calibration: calibrationCheckSchema.optional(),
+    sample: retainedSampleSchema,
   })
-  .describe('A disputed intake result, its retest on the retained sample, and the scheme rules');
+    .refine((t) => Date.parse(t.testedAt) >= Date.parse(t.sample.sampledAt), {
+      error: 'must not be before retest.sample.sampledAt',
+      path: ['testedAt'],
+      when: fieldsValid,
+    })
+    .optional(),
+  intake: strictObject({
+    addedWaterPercent: numberIn('%')
+      .gte(0, { error: 'must be 0 % or more' })
+      .lte(100, { error: 'must be at most 100 %' })
+      .optional()
+      .describe('Added water the intake result charged, %'),
+  }).optional(),
+}).describe('A disputed intake result, its retest on the retained sample, and the scheme rules');
 
 export type Precision = z.infer<typeof precisionSchema>;
 export type DecisionRule = z.infer<typeof decisionRuleSchema>;

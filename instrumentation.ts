@@ -1,0 +1,7 @@
+export async function register() {
+  // Node.js runtime only: migrations run once per server process, never during `next build`.
+  if (process.env.NEXT_RUNTIME === 'nodejs') {
+    const { migrate } = await import('./db/migrate');
+    await migrate();
+  }
+}

@@ -1,0 +1,192 @@
+import 'server-only';
+import { and, asc, desc, eq, inArray, or } from 'drizzle-orm';
+import type { DbOrTx } from '@/db/client';
+import {
+  attachment,
+  auditEvent,
+  custodyEvent,
+  decision,
+  delivery,
+  instrument,
+  intakeResult,
+  measurementSet,
+  note,
+  organisation,
+  reading,
+  sample,
+  schemeRules,
+  supplierFarm,
+  user,
+} from '@/db/schema';
+import type { Actor } from '@/lib/auth/actor';
+import { findVisibleCase } from './cases';
+import { isBlindFor } from './case-scope';
+
+/** Everything one actor may see of one case, as plain data for the Case file page and the API. */
+export async function getCaseFile(db: DbOrTx, actor: Actor, caseId: string) {
+  const found = await findVisibleCase(db, actor, caseId);
+  const blind = isBlindFor(actor, found.retestSubmittedAt);
+
+  const orgIds = [found.supplierOrganisationId, found.plantOrganisationId, found.boardOrganisationId, found.labOrganisationId].filter(
+    (id): id is string => id !== null,
+  );
+  const [result] = await db.select().from(intakeResult).where(eq(intakeResult.id, found.intakeResultId));
+  // Blind: the laboratory's view holds only the sets of this case, never the intake set.
+  const setScope = blind || !result ? eq(measurementSet.caseId, found.id) : or(eq(measurementSet.caseId, found.id), eq(measurementSet.id, result.measurementSetId));
+  const [orgs, [load], [rules], samples, sets, notes, decisions, ledger, files] = await Promise.all([
+    db.select({ id: organisation.id, name: organisation.name, kind: organisation.kind }).from(organisation).where(inArray(organisation.id, orgIds)),
+    db
+      .select({
+        id: delivery.id,
+        reference: delivery.reference,
+        farmName: supplierFarm.name,
+        herdCode: supplierFarm.herdCode,
+        collectedAt: delivery.collectedAt,
+        receivedAt: delivery.receivedAt,
+        volumeLitres: delivery.volumeLitres,
+        tanker: delivery.tanker,
+        compartment: delivery.compartment,
+        receiptTempTenthMilliC: delivery.receiptTempTenthMilliC,
+      })
+      .from(delivery)
+      .innerJoin(supplierFarm, eq(supplierFarm.id, delivery.farmId))
+      .where(eq(delivery.id, found.deliveryId)),
+    db.select({ id: schemeRules.id, version: schemeRules.version, rules: schemeRules.rules, effectiveFrom: schemeRules.effectiveFrom }).from(schemeRules).where(eq(schemeRules.id, found.rulesVersionId)),
+    db
+      .select()
+      .from(sample)
+      .where(and(or(eq(sample.deliveryId, found.deliveryId), eq(sample.caseId, found.id)), inArray(sample.kind, ['retained', 'counter', 'referee', 'authentic'])))
+      .orderBy(asc(sample.createdAt)),
+    db
+      .select({
+        id: measurementSet.id,
+        purpose: measurementSet.purpose,
+        organisationId: measurementSet.organisationId,
+        analystName: measurementSet.analystName,
+        testedAt: measurementSet.testedAt,
+        sampleTempTenthMilliC: measurementSet.sampleTempTenthMilliC,
+        preparation: measurementSet.preparation,
+        resultTenthMilliC: measurementSet.resultTenthMilliC,
+        resultBasis: measurementSet.resultBasis,
+        readingsUsed: measurementSet.readingsUsed,
+        submittedAt: measurementSet.submittedAt,
+        instrumentSerial: instrument.serialNumber,
+        calibrationCheckId: measurementSet.calibrationCheckId,
+      })
+      .from(measurementSet)
+      .innerJoin(instrument, eq(instrument.id, measurementSet.instrumentId))
+      .where(setScope)
+      .orderBy(asc(measurementSet.testedAt)),
+    db
+      .select({
+        id: note.id,
+        parentId: note.parentId,
+        visibility: note.visibility,
+        body: note.body,
+        createdAt: note.createdAt,
+        editedAt: note.editedAt,
+        authorName: user.name,
+        organisationId: note.organisationId,
+      })
+      .from(note)
+      .innerJoin(user, eq(user.id, note.authorUserId))
+      .where(and(eq(note.caseId, found.id), or(eq(note.visibility, 'parties'), eq(note.organisationId, actor.organisationId))))
+      .orderBy(asc(note.createdAt)),
+    db.select().from(decision).where(eq(decision.caseId, found.id)).orderBy(desc(decision.signedAt)),
+    db
+      .select({ seq: auditEvent.seq, at: auditEvent.at, action: auditEvent.action, change: auditEvent.change, actorName: user.name, actorOrganisationId: auditEvent.actorOrganisationId })
+      .from(auditEvent)
+      .leftJoin(user, eq(user.id, auditEvent.actorUserId))
+      .where(eq(auditEvent.caseId, found.id))
+      .orderBy(asc(auditEvent.seq)),
+    db
+      .select({ id: attachment.id, kind: attachment.kind, caption: attachment.caption, fileName: attachment.fileName, contentType: attachment.contentType, sizeBytes: attachment.sizeBytes, sha256: attachment.sha256, createdAt: attachment.createdAt, removedAt: attachment.removedAt, uploaderName: user.name })
+      .from(attachment)
+      .innerJoin(user, eq(user.id, attachment.uploadedBy))
+      .where(eq(attachment.caseId, found.id))
+      .orderBy(asc(attachment.createdAt)),
+  ]);
+
+  const sampleIds = samples.map((s) => s.id);
+  const setIds = sets.map((s) => s.id);
+  const [custody, readings] = await Promise.all([
+    sampleIds.length ? db.select().from(custodyEvent).where(inArray(custodyEvent.sampleId, sampleIds)).orderBy(asc(custodyEvent.at)) : [],
+    setIds.length ? db.select().from(reading).where(inArray(reading.measurementSetId, setIds)).orderBy(asc(reading.position)) : [],
+  ]);
+  const orgName = (id: string | null) => orgs.find((o) => o.id === id)?.name ?? null;
+
+  return {
+    id: found.id,
+    number: found.number,
+    status: found.status,
+    blind,
+    openedAt: found.openedAt,
+    grounds: found.grounds,
+    // The supplier's own account may quote values; the blind laboratory does not read it.
+    explanation: blind ? null : found.explanation,
+    remedy: blind ? null : found.remedy,
+    deadlines: {
+      dispatchDueAt: found.dispatchDueAt,
+      sampleValidUntil: found.sampleValidUntil,
+      decisionDueAt: found.decisionDueAt,
+    },
+    retestSubmittedAt: found.retestSubmittedAt,
+    decidedAt: found.decidedAt,
+    withdrawnAt: found.withdrawnAt,
+    parties: {
+      supplier: orgName(found.supplierOrganisationId),
+      plant: orgName(found.plantOrganisationId),
+      lab: orgName(found.labOrganisationId),
+      board: orgName(found.boardOrganisationId),
+    },
+    delivery: load,
+    intake: blind || !result
+      ? null
+      : {
+          verdict: result.verdict,
+          valueTenthMilliC: result.valueTenthMilliC,
+          limitTenthMilliC: result.limitTenthMilliC,
+          decisionRule: result.decisionRule,
+          addedWaterBasisPoints: result.addedWaterBasisPoints,
+          amountMinor: result.amountMinor,
+          currency: result.currency,
+          decidedAt: result.decidedAt,
+          notifiedAt: result.notifiedAt,
+        },
+    rules: rules ? { version: rules.version, name: rules.rules.name, effectiveFrom: rules.effectiveFrom } : null,
+    samples: samples.map((s) => ({
+      id: s.id,
+      code: s.code,
+      kind: s.kind,
+      sealNumber: s.sealNumber,
+      preservative: s.preservative,
+      storage: s.storage,
+      sampledAt: s.sampledAt,
+      custody: custody
+        .filter((c) => c.sampleId === s.id)
+        .map((c) => ({ id: c.id, kind: c.kind, at: c.at, organisation: orgName(c.organisationId), location: c.location, tempTenthMilliC: c.tempTenthMilliC, sealIntact: c.sealIntact, frozen: c.frozen, note: c.note })),
+    })),
+    measurementSets: sets.map((set) => ({
+      ...set,
+      laboratory: orgName(set.organisationId),
+      readings: readings.filter((r) => r.measurementSetId === set.id).map((r) => ({ position: r.position, valueTenthMilliC: r.valueTenthMilliC, flag: r.flag })),
+    })),
+    notes: notes.map((n) => ({ ...n, organisation: orgName(n.organisationId) })),
+    decisions: decisions.map((d) => ({
+      id: d.id,
+      outcome: d.outcome,
+      reasons: d.reasons,
+      followedProposal: d.followedProposal,
+      departureReason: d.departureReason,
+      signerName: d.signerName,
+      signedAt: d.signedAt,
+      signatureMeaning: d.signatureMeaning,
+      recordSha256: d.recordSha256,
+      supersedesId: d.supersedesId,
+    })),
+    attachments: files,
+    ledger: ledger.map((e) => ({ ...e, actorOrganisation: orgName(e.actorOrganisationId) })),
+  };
+}
+
+export type CaseFile = Awaited<ReturnType<typeof getCaseFile>>;

@@ -1,0 +1,35 @@
+import 'server-only';
+import { and, desc, eq, gt, ne } from 'drizzle-orm';
+import type { Db } from '@/db/client';
+import { session } from '@/db/schema';
+import type { Actor } from '@/lib/auth/actor';
+import { recordAudit } from '@/lib/audit/record';
+import { AppError } from '@/lib/errors';
+
+/** The actor's own live sessions; the session token itself never leaves the server. */
+export async function listOwnSessions(db: Db, actor: Actor) {
+  const rows = await db
+    .select({ id: session.id, createdAt: session.createdAt, updatedAt: session.updatedAt, expiresAt: session.expiresAt, ipAddress: session.ipAddress, userAgent: session.userAgent })
+    .from(session)
+    .where(and(eq(session.userId, actor.userId), gt(session.expiresAt, new Date())))
+    .orderBy(desc(session.updatedAt));
+  return rows.map((row) => ({ ...row, current: row.id === actor.sessionId }));
+}
+
+export async function revokeOwnSession(db: Db, actor: Actor, sessionId: string) {
+  await db.transaction(async (tx) => {
+    const deleted = await tx.delete(session).where(and(eq(session.id, sessionId), eq(session.userId, actor.userId))).returning({ id: session.id });
+    if (deleted.length === 0) throw new AppError('not_found', 'That session has already ended.');
+    await recordAudit(tx, { actorUserId: actor.userId, actorOrganisationId: actor.organisationId }, { action: 'session.revoked', objectType: 'session', objectId: sessionId, change: { userId: actor.userId } });
+  });
+}
+
+export async function revokeOtherSessions(db: Db, actor: Actor): Promise<number> {
+  return db.transaction(async (tx) => {
+    const deleted = await tx.delete(session).where(and(eq(session.userId, actor.userId), ne(session.id, actor.sessionId))).returning({ id: session.id });
+    for (const row of deleted) {
+      await recordAudit(tx, { actorUserId: actor.userId, actorOrganisationId: actor.organisationId }, { action: 'session.revoked', objectType: 'session', objectId: row.id, change: { userId: actor.userId } });
+    }
+    return deleted.length;
+  });
+}
