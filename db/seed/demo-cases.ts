@@ -29,6 +29,8 @@ export type DemoCasePlan = {
   explanation: string;
   remedy: string;
   openedAfterNoticeHours: number;
+  /** Pins the opening relative to now, for cases that should look fresh in the demo. */
+  openedHoursAgo?: number;
   retestReadings?: number[];
   decision?: { outcome: 'uphold' | 'reverse' | 'adjust'; reasons: string };
   notes?: { author: 'supplier' | 'plant' | 'lab' | 'arbiter'; text: string; visibility: 'parties' | 'internal' }[];
@@ -48,7 +50,7 @@ function reached(status: CaseStatus, stage: CaseStatus): boolean {
 export async function seedCase(db: Db, plan: DemoCasePlan, load: SeededDelivery, parties: CaseParties, now: Date): Promise<string> {
   const supplier = parties.supplierUsers[plan.supplierKey];
   const noticeAt = load.notifiedAt ?? load.testedAt;
-  const openedAt = new Date(noticeAt.getTime() + plan.openedAfterNoticeHours * HOUR);
+  const openedAt = plan.openedHoursAgo === undefined ? new Date(noticeAt.getTime() + plan.openedAfterNoticeHours * HOUR) : new Date(now.getTime() - plan.openedHoursAgo * HOUR);
   const dispatchedAt = new Date(openedAt.getTime() + 1.5 * HOUR);
   const receivedAt = new Date(dispatchedAt.getTime() + 3 * HOUR);
   const retestAt = new Date(receivedAt.getTime() + 5 * HOUR);

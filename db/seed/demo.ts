@@ -62,7 +62,7 @@ const casePlans: DemoCasePlan[] = [
   },
   {
     deliveryKey: 'open', sequence: 7, status: 'open', supplierKey: 'supplier', grounds: ['instrument'],
-    explanation: 'Our neighbours on the same round were all accepted that day.', remedy: 'Pay the load in full.', openedAfterNoticeHours: 0,
+    explanation: 'Our neighbours on the same round were all accepted that day.', remedy: 'Pay the load in full.', openedAfterNoticeHours: 0, openedHoursAgo: 1,
   },
 ];
 
