@@ -3,6 +3,8 @@ import type { NextConfig } from 'next';
 const nextConfig: NextConfig = {
   // PGlite ships its own WebAssembly and data files; bundling them breaks the first query.
   serverExternalPackages: ['@electric-sql/pglite'],
+  // A separate output folder lets a test run build beside a developer's own build.
+  distDir: process.env.NEXT_DIST_DIR || '.next',
   poweredByHeader: false,
   typedRoutes: false,
   async headers() {

@@ -29,7 +29,7 @@ const catcher = await startMailCatcher({ smtpPort: Number(smtp.port || 1025), ht
 console.log(`Mail catcher: SMTP 127.0.0.1:${catcher.smtpPort}; caught mail on the Outbox page.`);
 
 const nextBin = path.join(process.cwd(), 'node_modules', 'next', 'dist', 'bin', 'next');
-if (process.env.DEMO_SKIP_BUILD !== '1' || !fs.existsSync('.next/BUILD_ID')) {
+if (process.env.DEMO_SKIP_BUILD !== '1' || !fs.existsSync(path.join(process.env.NEXT_DIST_DIR || '.next', 'BUILD_ID'))) {
   console.log('Building the production app…');
   const build = spawnSync(process.execPath, [nextBin, 'build'], { stdio: 'inherit', env: process.env });
   if (build.status !== 0) {

@@ -48,7 +48,12 @@ export function DeliveryTable({ items, empty, showContest }: { items: DeliveryLi
                 {item.caseId ? (
                   <Link href={`/cases/${item.caseId}`}>{item.caseNumber}</Link>
                 ) : showContest && item.contestable && item.contestDeadline ? (
-                  <Deadline label="Contest by" due={item.contestDeadline} />
+                  <div className="grid gap-1">
+                    <Link href={`/deliveries/${item.id}/dispute`} className="font-bold">
+                      Open a dispute
+                    </Link>
+                    <Deadline label="Contest by" due={item.contestDeadline} />
+                  </div>
                 ) : item.verdict !== 'accepted' ? (
                   <span className="text-xs text-brine">contest window closed</span>
                 ) : null}

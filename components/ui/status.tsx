@@ -1,5 +1,6 @@
 import type { ReactNode } from 'react';
 import type { CaseStatus } from '@/db/schema';
+import { caseStatusLabels } from '@/lib/cases/labels';
 
 type Tone = 'neutral' | 'action' | 'warning' | 'failure' | 'success';
 
@@ -23,14 +24,7 @@ export function Badge({ tone, children }: { tone: Tone; children: ReactNode }) {
   );
 }
 
-export const caseStatusLabels: Record<CaseStatus, string> = {
-  open: 'Opened',
-  awaiting_sample: 'Sample in transit',
-  retest: 'At the referee bench',
-  review: 'Before the board',
-  decided: 'Decided',
-  withdrawn: 'Withdrawn',
-};
+export { caseStatusLabels };
 
 const caseStatusTones: Record<CaseStatus, Tone> = {
   open: 'action',

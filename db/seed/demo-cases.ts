@@ -96,13 +96,11 @@ export async function seedCase(db: Db, plan: DemoCasePlan, load: SeededDelivery,
   });
 
   const retained = load.retainedSampleId!;
-  const custody: (typeof custodyEvent.$inferInsert)[] = [
-    { sampleId: retained, kind: 'sealed', at: load.collectedAt, organisationId: parties.plant.organisationId, actorUserId: parties.plant.userId, location: 'Farm tank, by the tanker driver', sealIntact: true },
-    { sampleId: retained, kind: 'stored', at: load.receivedAt, organisationId: parties.plant.organisationId, actorUserId: parties.plant.userId, location: 'Retained-sample refrigerator B', tempTenthMilliC: toTenthMilliC(3.9), sealIntact: true, frozen: false },
-  ];
+  // Sealing and cold storage are recorded with the delivery; the case adds what happened after.
+  const custody: (typeof custodyEvent.$inferInsert)[] = [];
 
   if (plan.status === 'withdrawn') {
-    await db.insert(custodyEvent).values(custody);
+    if (custody.length) await db.insert(custodyEvent).values(custody);
     const withdrawnAt = clamp(new Date(openedAt.getTime() + 3 * HOUR));
     await recordAudit(db, audit(supplier, withdrawnAt), {
       action: 'case.transitioned',
@@ -190,7 +188,7 @@ export async function seedCase(db: Db, plan: DemoCasePlan, load: SeededDelivery,
       change: { from: 'retest', to: 'review', transition: 'submit_retest', detail: { readings: plan.retestReadings.length, result: outcome.value } },
     });
   }
-  await db.insert(custodyEvent).values(custody);
+  if (custody.length) await db.insert(custodyEvent).values(custody);
 
   if (plan.status === 'decided' && plan.decision && plan.retestReadings && labCheck) {
     const proposal = assess({
@@ -200,7 +198,7 @@ export async function seedCase(db: Db, plan: DemoCasePlan, load: SeededDelivery,
         readings: plan.retestReadings,
         testedAt: retestAt.toISOString(),
         calibration: { nominal: rules.calibration.nominal, readings: labCheck.readings },
-        sample: { sampledAt: load.collectedAt.toISOString(), sealIntact: true, frozen: false, custodyComplete: true, storageTemperatures: [3.9, 4.1, 4.6, 4.4] },
+        sample: { sampledAt: load.collectedAt.toISOString(), sealIntact: true, frozen: false, custodyComplete: true, storageTemperatures: [4.1, 4.6, 4.4] },
       },
     });
     const followed = proposal.outcome === plan.decision.outcome;

@@ -1,5 +1,5 @@
 import type { Db } from '@/db/client';
-import { calibrationCheck, delivery, intakeResult, measurementSet, reading, sample } from '@/db/schema';
+import { calibrationCheck, custodyEvent, delivery, intakeResult, measurementSet, reading, sample } from '@/db/schema';
 import { calibrationCheck as checkCalibration, finalResult } from '@/lib/arbitration';
 import { intakeVerdict } from '@/lib/intake/verdict';
 import type { SchemeRules } from '@/lib/rules/schema';
@@ -72,6 +72,7 @@ export async function seedDeliveries(
   const readings: (typeof reading.$inferInsert)[] = [];
   const results: (typeof intakeResult.$inferInsert)[] = [];
   const checks: (typeof calibrationCheck.$inferInsert)[] = [];
+  const custody: (typeof custodyEvent.$inferInsert)[] = [];
   const byKey = new Map<string, SeededDelivery>();
   const incidentAt = new Map(input.incidents.map((incident) => [`${incident.daysAgo}:${incident.farmIndex}`, incident]));
 
@@ -165,6 +166,11 @@ export async function seedDeliveries(
           storage: 'Retained-sample refrigerator B, 0–6 °C',
           sampledAt: collectedAt,
         });
+        // The driver seals the retained portion at the farm; the plant stores it cold on arrival.
+        custody.push(
+          { sampleId: retainedSampleId, kind: 'sealed', at: collectedAt, organisationId: input.plantOrganisationId, actorUserId: input.plantUserId, location: 'Farm tank, by the tanker driver', sealIntact: true },
+          { sampleId: retainedSampleId, kind: 'stored', at: receivedAt, organisationId: input.plantOrganisationId, actorUserId: input.plantUserId, location: 'Retained-sample refrigerator B', tempTenthMilliC: toTenthMilliC(round4(random.between(3.4, 4.6))), sealIntact: true, frozen: false },
+        );
       }
       sets.push({
         id: setId,
@@ -233,6 +239,7 @@ export async function seedDeliveries(
   await insertChunked(checks, (chunk) => db.insert(calibrationCheck).values(chunk));
   await insertChunked(deliveries, (chunk) => db.insert(delivery).values(chunk));
   await insertChunked(samples, (chunk) => db.insert(sample).values(chunk));
+  await insertChunked(custody, (chunk) => db.insert(custodyEvent).values(chunk));
   await insertChunked(sets, (chunk) => db.insert(measurementSet).values(chunk));
   await insertChunked(readings, (chunk) => db.insert(reading).values(chunk), 1000);
   await insertChunked(results, (chunk) => db.insert(intakeResult).values(chunk));

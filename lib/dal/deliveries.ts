@@ -26,9 +26,10 @@ function deliveryVisibility(actor: Actor): SQL {
 }
 
 /** Deliveries with their current intake result, the contest deadline and any live dispute. */
-export async function listDeliveries(db: DbOrTx, actor: Actor, query: DeliveryListQuery, now = new Date()) {
+export async function listDeliveries(db: DbOrTx, actor: Actor, query: DeliveryListQuery, now = new Date(), only?: { deliveryId: string }) {
   assertCan(actor, 'delivery', 'list');
   const filters: SQL[] = [deliveryVisibility(actor), isNull(intakeResult.supersededAt)];
+  if (only) filters.push(eq(delivery.id, only.deliveryId));
   if (query.verdict?.length) filters.push(inArray(intakeResult.verdict, query.verdict));
   if (query.farm) filters.push(eq(delivery.farmId, query.farm));
   if (query.sinceDays) filters.push(gte(delivery.receivedAt, new Date(now.getTime() - query.sinceDays * 86_400_000)));
@@ -88,3 +89,9 @@ export async function listDeliveries(db: DbOrTx, actor: Actor, query: DeliveryLi
 }
 
 export type DeliveryListItem = Awaited<ReturnType<typeof listDeliveries>>['items'][number];
+
+/** One delivery as the list shows it, or null when the actor may not see it. */
+export async function findDelivery(db: DbOrTx, actor: Actor, deliveryId: string, now = new Date()): Promise<DeliveryListItem | null> {
+  const page = await listDeliveries(db, actor, deliveryListQuerySchema.parse({ pageSize: 1 }), now, { deliveryId });
+  return page.items[0] ?? null;
+}

@@ -21,22 +21,25 @@ function isNavigationSignal(error: unknown): boolean {
   return !!error && typeof error === 'object' && 'digest' in error && String((error as { digest: unknown }).digest).startsWith('NEXT_');
 }
 
-async function run<S extends z.ZodType>(
-  schema: S,
-  formData: FormData,
-  handler: (input: z.infer<S>) => Promise<FormState | void>,
-): Promise<FormState> {
-  const values = echoValues(formData);
+/** Runs a handler and turns expected errors into form state; navigation signals pass through. */
+async function guarded(handler: () => Promise<FormState | void>, values?: Record<string, string>): Promise<FormState> {
   try {
-    const parsed = schema.safeParse(Object.fromEntries(formData));
-    if (!parsed.success) return { ok: false, message: 'Some fields need attention.', fieldErrors: fieldErrorsFromZod(parsed.error), values };
-    return (await handler(parsed.data)) ?? { ok: true, message: 'Saved.' };
+    return (await handler()) ?? { ok: true, message: 'Saved.' };
   } catch (error) {
     if (isNavigationSignal(error)) throw error;
     if (error instanceof AppError) return { ok: false, message: error.message, fieldErrors: error.fieldErrors, values };
     console.error('Unhandled error in a form action:', error);
     return { ok: false, message: 'Something went wrong on our side; nothing was changed.', values };
   }
+}
+
+async function run<S extends z.ZodType>(schema: S, formData: FormData, handler: (input: z.infer<S>) => Promise<FormState | void>): Promise<FormState> {
+  const values = echoValues(formData);
+  return guarded(async () => {
+    const parsed = schema.safeParse(Object.fromEntries(formData));
+    if (!parsed.success) return { ok: false, message: 'Some fields need attention.', fieldErrors: fieldErrorsFromZod(parsed.error), values };
+    return handler(parsed.data);
+  }, values);
 }
 
 /**
@@ -54,4 +57,14 @@ export function formAction<S extends z.ZodType>(schema: S, handler: (input: z.in
 /** The same, for the few forms used before there is a session (accepting an invitation). */
 export function anonymousFormAction<S extends z.ZodType>(schema: S, handler: (input: z.infer<S>) => Promise<FormState | void>) {
   return async (_previous: FormState, formData: FormData): Promise<FormState> => run(schema, formData, handler);
+}
+
+/**
+ * For actions that client forms call with structured values (arrays of readings, dates) rather than
+ * FormData; the handler validates them itself with the same schema the form used.
+ */
+export async function actorAction(handler: (actor: Actor) => Promise<FormState | void>): Promise<FormState> {
+  const actor = await getActor();
+  if (!actor) return { ok: false, message: 'Your session has ended. Sign in again; nothing was changed.' };
+  return guarded(() => handler(actor));
 }

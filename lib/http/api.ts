@@ -40,21 +40,24 @@ export function withoutActor<P = Record<string, never>>(handler: Handler<P, null
 
 const MAX_JSON_BYTES = 256 * 1024;
 
-/** Reads and validates a JSON body; a wrong type, bad JSON or a schema failure is a 4xx, never a 500. */
-export async function parseJsonBody<S extends z.ZodType>(request: Request, schema: S): Promise<z.infer<S>> {
+/** Reads a JSON body; a wrong type, an oversized body or bad JSON is a 4xx, never a 500. */
+export async function readJsonBody(request: Request): Promise<unknown> {
   const type = request.headers.get('content-type') ?? '';
   if (!/^application\/(.+\+)?json\b/i.test(type)) {
     throw new AppError('unsupported_media_type', 'Send the body as JSON with Content-Type: application/json.');
   }
   const text = await request.text();
   if (Buffer.byteLength(text) > MAX_JSON_BYTES) throw new AppError('payload_too_large', 'The body is larger than 256 KiB.');
-  let body: unknown;
   try {
-    body = JSON.parse(text);
+    return JSON.parse(text);
   } catch {
     throw new AppError('invalid', 'The body is not valid JSON.');
   }
-  const parsed = schema.safeParse(body);
+}
+
+/** Reads and validates a JSON body against its schema. */
+export async function parseJsonBody<S extends z.ZodType>(request: Request, schema: S): Promise<z.infer<S>> {
+  const parsed = schema.safeParse(await readJsonBody(request));
   if (!parsed.success) throw invalidInput(parsed.error, 'The body does not match the expected schema.');
   return parsed.data;
 }

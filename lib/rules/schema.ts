@@ -21,7 +21,7 @@ export const schemeRulesSchema = z
     precision: z.object({ r: positiveCelsius, R: positiveCelsius }),
     decisionRule: z.enum(['simple', 'guarded_rejection', 'guarded_acceptance']),
     onDisagreement: z.enum(['third_laboratory', 'referee_decides']),
-    referenceFreezingPoint: freezingPoint,
+    referenceFreezingPoint: freezingPoint.refine((v) => v < 0, 'must be below 0.000 °C'),
     adjustThresholdPercent: z.number().min(0).max(100),
     // Beyond the upper limit, loads whose added water reaches this share are rejected; below it, deducted.
     rejectionAddedWaterPercent: z.number().min(0).max(100),

@@ -4,6 +4,7 @@ import { z } from 'zod';
 import { getDb } from '@/db/client';
 import { requireActor } from '@/lib/auth/session';
 import { getCaseFile } from '@/lib/dal/case-file';
+import { caseWorkbench } from '@/lib/dal/case-workbench';
 import { isAppError } from '@/lib/errors';
 import { PageHeader, Card } from '@/components/ui/card';
 import { CaseStatusBadge } from '@/components/ui/status';
@@ -11,6 +12,15 @@ import { Deadline } from '@/components/ui/deadline';
 import { ContestedResult, Readings, SamplesAndCustody } from '@/components/cases/case-sections';
 import { DecisionSection, Evidence, Ledger, Notes } from '@/components/cases/case-record-sections';
 import { formatDateTime } from '@/lib/format/dates';
+import { ReviewPanel } from '@/components/cases/review-panel';
+import { DispatchForm } from '@/components/cases/forms/dispatch-form';
+import { ReceiveForm } from '@/components/cases/forms/receive-form';
+import { BenchForm } from '@/components/cases/forms/bench-form';
+import { FurtherTestForm } from '@/components/cases/forms/further-test-form';
+import { WithdrawForm } from '@/components/cases/forms/withdraw-form';
+import { FormMessage } from '@/components/ui/field';
+import { isTransitionName } from '@/lib/cases/lifecycle';
+import { successMessages } from '@/lib/cases/messages';
 
 export const metadata: Metadata = { title: 'Case file' };
 
@@ -18,16 +28,20 @@ async function loadCase(caseId: string) {
   const actor = await requireActor();
   if (!z.uuid().safeParse(caseId).success) notFound();
   try {
-    return await getCaseFile(getDb(), actor, caseId);
+    const db = getDb();
+    const [file, bench] = await Promise.all([getCaseFile(db, actor, caseId), caseWorkbench(db, actor, caseId)]);
+    return { file, bench, actor };
   } catch (error) {
     if (isAppError(error) && error.code === 'not_found') notFound();
     throw error;
   }
 }
 
-export default async function CaseFilePage({ params }: { params: Promise<{ caseId: string }> }) {
+export default async function CaseFilePage({ params, searchParams }: { params: Promise<{ caseId: string }>; searchParams: Promise<Record<string, string | undefined>> }) {
   const { caseId } = await params;
-  const file = await loadCase(caseId);
+  const { opened, done } = await searchParams;
+  const { file, bench, actor } = await loadCase(caseId);
+  const rules = bench.rules;
   const live = file.status !== 'decided' && file.status !== 'withdrawn';
   return (
     <>
@@ -55,6 +69,15 @@ export default async function CaseFilePage({ params }: { params: Promise<{ caseI
         </Card>
       </div>
       <div className="grid gap-6">
+        {opened ? <FormMessage tone="success">Your dispute {file.number} is open. The plant and the board have been told.</FormMessage> : null}
+        {done && isTransitionName(done) ? <FormMessage tone="success">{successMessages[done]}</FormMessage> : null}
+        {bench.allowed.includes('dispatch') ? <DispatchForm caseId={file.id} laboratories={bench.laboratories} sealNumber={bench.sample?.sealNumber ?? null} /> : null}
+        {bench.allowed.includes('receive') ? <ReceiveForm caseId={file.id} sampleCode={bench.sample?.code ?? null} /> : null}
+        {bench.allowed.includes('submit_retest') && rules ? (
+          <BenchForm caseId={file.id} instruments={bench.instruments} analystName={actor.name} rules={{ precision: rules.precision, calibration: { nominal: rules.calibration.nominal, readings: rules.calibration.readings, tolerance: rules.calibration.tolerance, required: rules.calibration.required } }} />
+        ) : null}
+        {bench.proposal && (bench.hasRetest || bench.showProposal) ? <ReviewPanel assessment={bench.proposal.assessment} input={bench.proposal.input} showProposal={bench.showProposal} /> : null}
+        {bench.allowed.includes('order_further_test') ? <FurtherTestForm caseId={file.id} laboratories={bench.laboratories} suggestedCode={`F-${file.number}-${file.samples.length + 1}`} /> : null}
         <ContestedResult file={file} />
         <Readings file={file} />
         <SamplesAndCustody file={file} />
@@ -62,6 +85,7 @@ export default async function CaseFilePage({ params }: { params: Promise<{ caseI
         <Notes file={file} />
         <DecisionSection file={file} />
         <Ledger file={file} />
+        {bench.allowed.includes('withdraw') ? <WithdrawForm caseId={file.id} /> : null}
       </div>
     </>
   );

@@ -1,7 +1,9 @@
 import { getDb } from '@/db/client';
-import { withActor, parseSearchParams } from '@/lib/http/api';
+import { withActor, parseSearchParams, readJsonBody } from '@/lib/http/api';
+import { requestOrigin } from '@/lib/http/origin';
 import { listCases } from '@/lib/dal/cases';
 import { caseListQuerySchema } from '@/lib/dal/cases-query';
+import { openDispute } from '@/lib/dal/open-dispute';
 
 export const dynamic = 'force-dynamic';
 
@@ -9,4 +11,11 @@ export const dynamic = 'force-dynamic';
 export const GET = withActor(async ({ request, actor }) => {
   const query = parseSearchParams(request, caseListQuerySchema);
   return listCases(getDb(), actor, query);
+});
+
+/** A supplier opens a dispute against one of its intake results. */
+export const POST = withActor(async ({ request, actor }) => {
+  const body = await readJsonBody(request);
+  const created = await openDispute(getDb(), actor, body, { origin: requestOrigin(request.headers, 'api') });
+  return Response.json({ id: created.id, number: created.number, status: created.status }, { status: 201, headers: { location: `/api/v1/cases/${created.id}` } });
 });

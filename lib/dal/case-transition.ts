@@ -1,0 +1,81 @@
+import 'server-only';
+import { and, eq, inArray } from 'drizzle-orm';
+import type { Db } from '@/db/client';
+import { disputeCase } from '@/db/schema';
+import type { Actor } from '@/lib/auth/actor';
+import { can } from '@/lib/auth/permissions';
+import { recordAudit } from '@/lib/audit/record';
+import { transitions, type TransitionName } from '@/lib/cases/lifecycle';
+import { transitionSchemas, type TransitionInputs } from '@/lib/cases/schemas';
+import { caseStatusLabel } from '@/lib/cases/labels';
+import { AppError, invalidInput } from '@/lib/errors';
+import { notifyCase } from '@/lib/mail/case-mails';
+import { caseVisibility } from './case-scope';
+import { rulesVersion } from './rules';
+import type { EffectContext, EffectResult } from './transitions/context';
+import { dispatchEffect } from './transitions/dispatch';
+import { receiveEffect } from './transitions/receive';
+import { submitRetestEffect } from './transitions/submit-retest';
+import { orderFurtherTestEffect } from './transitions/order-further-test';
+import { withdrawEffect } from './transitions/withdraw';
+
+const effects: { [N in TransitionName]: (context: EffectContext<TransitionInputs[N]>) => Promise<EffectResult> } = {
+  dispatch: dispatchEffect,
+  receive: receiveEffect,
+  submit_retest: submitRetestEffect,
+  order_further_test: orderFurtherTestEffect,
+  withdraw: withdrawEffect,
+};
+
+export type TransitionOutcome = { caseId: string; number: string; from: string; to: string; transition: TransitionName };
+
+/**
+ * Makes one lifecycle transition: outsiders get 404, a party without the right 403, bad input 400,
+ * a case no longer in a state the transition leaves from 409. The state check, the change, its
+ * effects and the audit event are one transaction on a locked row, so of two racing submits exactly
+ * one wins. Mail goes out after the commit.
+ */
+export async function runTransition<N extends TransitionName>(
+  db: Db,
+  actor: Actor,
+  caseId: string,
+  name: N,
+  rawInput: unknown,
+  context: { origin?: string; now?: Date } = {},
+): Promise<TransitionOutcome> {
+  const spec = transitions[name];
+  const [visible] = await db.select({ id: disputeCase.id }).from(disputeCase).where(and(eq(disputeCase.id, caseId), caseVisibility(actor)));
+  if (!visible || !can(actor.role, 'case', 'read')) throw new AppError('not_found', 'That case was not found.');
+  if (!can(actor.role, 'case', spec.permission)) throw new AppError('forbidden', `Your role cannot ${spec.label.toLowerCase()}.`);
+  const parsed = transitionSchemas[name].safeParse(rawInput);
+  if (!parsed.success) throw invalidInput(parsed.error);
+  const input = parsed.data as TransitionInputs[N];
+  const now = context.now ?? new Date();
+
+  const { row, effect, from } = await db.transaction(async (tx) => {
+    const [locked] = await tx.select().from(disputeCase).where(eq(disputeCase.id, caseId)).for('update');
+    if (!spec.from.includes(locked.status)) {
+      throw new AppError('conflict', `This case is now “${caseStatusLabel(locked.status)}”, so it cannot be changed that way. Reload the case to see what happened.`);
+    }
+    const rules = await rulesVersion(tx, locked.rulesVersionId);
+    if (!rules) throw new Error(`Case ${locked.number} names rules version ${locked.rulesVersionId}, which is missing`);
+    const result = await effects[name]({ tx, actor, caseRow: locked, input, now, rules: rules.rules });
+    const [updated] = await tx
+      .update(disputeCase)
+      .set({ ...result.caseChanges, status: spec.to, updatedAt: now })
+      .where(and(eq(disputeCase.id, caseId), inArray(disputeCase.status, [...spec.from])))
+      .returning();
+    if (!updated) throw new AppError('conflict', 'Someone else changed this case at the same moment. Reload it to see what happened.');
+    await recordAudit(tx, { actorUserId: actor.userId, actorOrganisationId: actor.organisationId, origin: context.origin, at: now }, {
+      action: 'case.transitioned',
+      objectType: 'case',
+      objectId: caseId,
+      caseId,
+      change: { from: locked.status, to: spec.to, transition: name, detail: result.detail },
+    });
+    return { row: updated, effect: result, from: locked.status };
+  });
+
+  await notifyCase(db, row, spec.notify, effect.notice);
+  return { caseId, number: row.number, from, to: spec.to, transition: name };
+}
