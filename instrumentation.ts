@@ -3,5 +3,9 @@ export async function register() {
   if (process.env.NEXT_RUNTIME === 'nodejs') {
     const { migrate } = await import('./db/migrate');
     await migrate();
+    if (process.env.APP_ENV !== 'test' && process.env.COUNTERSAMPLE_SCHEDULER !== 'off') {
+      const { startScheduler } = await import('./lib/jobs/scheduler');
+      startScheduler();
+    }
   }
 }

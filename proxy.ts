@@ -13,5 +13,5 @@ export function proxy(request: NextRequest) {
 }
 
 export const config = {
-  matcher: ['/desk/:path*', '/cases/:path*', '/deliveries/:path*', '/admin/:path*', '/account/:path*', '/outbox/:path*'],
+  matcher: ['/desk/:path*', '/cases/:path*', '/method/:path*', '/rules/:path*', '/deliveries/:path*', '/admin/:path*', '/account/:path*', '/outbox/:path*'],
 };

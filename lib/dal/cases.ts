@@ -142,3 +142,13 @@ export async function findVisibleCase(db: DbOrTx, actor: Actor, caseId: string) 
   if (!row) throw new AppError('not_found', 'That case was not found.');
   return row;
 }
+
+/** The suppliers and laboratories that appear on the actor's cases, for the list's filters. */
+export async function caseFilterOptions(db: DbOrTx, actor: Actor) {
+  if (!can(actor.role, 'case', 'list')) return { suppliers: [], laboratories: [] };
+  const [suppliers, laboratories] = await Promise.all([
+    db.selectDistinct({ id: supplierOrg.id, name: supplierOrg.name }).from(disputeCase).innerJoin(supplierOrg, eq(supplierOrg.id, disputeCase.supplierOrganisationId)).where(caseVisibility(actor)).orderBy(supplierOrg.name),
+    db.selectDistinct({ id: labOrg.id, name: labOrg.name }).from(disputeCase).innerJoin(labOrg, eq(labOrg.id, disputeCase.labOrganisationId)).where(caseVisibility(actor)).orderBy(labOrg.name),
+  ]);
+  return { suppliers, laboratories };
+}

@@ -1,3 +1,4 @@
+import { openDisputeSchema, transitionSchemas } from '@/lib/cases/schemas';
 import { z } from 'zod';
 import {
   attachmentKinds,
@@ -323,6 +324,9 @@ const assessmentExample: AssessmentInput = {
 
 const caseStatusNote = `Comma-separated case states, any of: ${caseStatuses.join(', ')}`;
 
+const openedCaseSchema = z.object({ id: z.uuid(), number: z.string(), status: z.literal('open') });
+const transitionOutcomeSchema = z.object({ caseId: z.uuid(), number: z.string(), from: z.string(), to: z.string(), transition: z.string() });
+
 export const operations: ApiOperation[] = [
   {
     method: 'get',
@@ -368,6 +372,77 @@ export const operations: ApiOperation[] = [
     errors: ['invalid', 'unsupported_media_type', 'payload_too_large', 'unauthenticated', 'forbidden'],
   },
   {
+    method: 'post',
+    path: '/api/v1/cases',
+    operationId: 'openDispute',
+    summary: 'Open a dispute against a rejected or deducted intake result',
+    description: 'Suppliers only, for their own deliveries, while the contest window of the scheme rules is open.',
+    tag: 'Cases',
+    requestBody: { name: 'OpenDispute', schema: openDisputeSchema },
+    response: { status: 201, description: 'The new case', body: { name: 'OpenedCase', schema: openedCaseSchema } },
+    errors: ['invalid', 'unsupported_media_type', 'unauthenticated', 'forbidden', 'not_found', 'conflict'],
+  },
+  {
+    method: 'post',
+    path: '/api/v1/cases/{caseId}/transitions/dispatch',
+    operationId: 'dispatchSample',
+    summary: 'The plant dispatches the retained sample to the referee laboratory',
+    description: 'Allowed from: open. A stale or repeated submit answers 409 and changes nothing.',
+    tag: 'Case lifecycle',
+    pathParams: z.object({ caseId: z.uuid().describe('The case id') }),
+    requestBody: { name: 'DispatchSample', schema: transitionSchemas.dispatch },
+    response: { status: 200, description: 'The transition made', body: { name: 'TransitionOutcome', schema: transitionOutcomeSchema } },
+    errors: ['invalid', 'unsupported_media_type', 'unauthenticated', 'forbidden', 'not_found', 'conflict'],
+  },
+  {
+    method: 'post',
+    path: '/api/v1/cases/{caseId}/transitions/receive',
+    operationId: 'recordReceipt',
+    summary: 'The referee laboratory records the sample on receipt',
+    description: 'Allowed from: awaiting_sample. A stale or repeated submit answers 409 and changes nothing.',
+    tag: 'Case lifecycle',
+    pathParams: z.object({ caseId: z.uuid().describe('The case id') }),
+    requestBody: { name: 'RecordReceipt', schema: transitionSchemas.receive },
+    response: { status: 200, description: 'The transition made', body: { name: 'TransitionOutcome', schema: transitionOutcomeSchema } },
+    errors: ['invalid', 'unsupported_media_type', 'unauthenticated', 'forbidden', 'not_found', 'conflict'],
+  },
+  {
+    method: 'post',
+    path: '/api/v1/cases/{caseId}/transitions/submit_retest',
+    operationId: 'submitRetest',
+    summary: 'The referee laboratory submits its calibration check and retest readings',
+    description: 'Allowed from: retest. A stale or repeated submit answers 409 and changes nothing.',
+    tag: 'Case lifecycle',
+    pathParams: z.object({ caseId: z.uuid().describe('The case id') }),
+    requestBody: { name: 'SubmitRetest', schema: transitionSchemas.submit_retest },
+    response: { status: 200, description: 'The transition made', body: { name: 'TransitionOutcome', schema: transitionOutcomeSchema } },
+    errors: ['invalid', 'unsupported_media_type', 'unauthenticated', 'forbidden', 'not_found', 'conflict'],
+  },
+  {
+    method: 'post',
+    path: '/api/v1/cases/{caseId}/transitions/order_further_test',
+    operationId: 'orderFurtherTest',
+    summary: 'The board orders a further test on a new sample',
+    description: 'Allowed from: review. A stale or repeated submit answers 409 and changes nothing.',
+    tag: 'Case lifecycle',
+    pathParams: z.object({ caseId: z.uuid().describe('The case id') }),
+    requestBody: { name: 'OrderFurtherTest', schema: transitionSchemas.order_further_test },
+    response: { status: 200, description: 'The transition made', body: { name: 'TransitionOutcome', schema: transitionOutcomeSchema } },
+    errors: ['invalid', 'unsupported_media_type', 'unauthenticated', 'forbidden', 'not_found', 'conflict'],
+  },
+  {
+    method: 'post',
+    path: '/api/v1/cases/{caseId}/transitions/withdraw',
+    operationId: 'withdrawDispute',
+    summary: 'The supplier withdraws its dispute',
+    description: 'Allowed from: open, awaiting_sample, retest, review. A stale or repeated submit answers 409 and changes nothing.',
+    tag: 'Case lifecycle',
+    pathParams: z.object({ caseId: z.uuid().describe('The case id') }),
+    requestBody: { name: 'WithdrawDispute', schema: transitionSchemas.withdraw },
+    response: { status: 200, description: 'The transition made', body: { name: 'TransitionOutcome', schema: transitionOutcomeSchema } },
+    errors: ['invalid', 'unsupported_media_type', 'unauthenticated', 'forbidden', 'not_found', 'conflict'],
+  },
+  {
     method: 'get',
     path: '/api/v1/openapi.json',
     operationId: 'getOpenApiDocument',
@@ -404,7 +479,13 @@ const SESSION = 'sessionCookie';
  * A decimal step such as 0.0001 cannot be checked with binary floats: −0.5123 / 0.0001 is
  * −5122.999…, so a JSON Schema validator would refuse a valid reading. The step goes into words.
  */
-function decimalStepInWords({ jsonSchema }: { jsonSchema: JsonSchema }): void {
+function decimalStepInWords({ zodSchema, jsonSchema }: { zodSchema: unknown; jsonSchema: JsonSchema }): void {
+  // Dates travel as ISO 8601 strings; the routes coerce them.
+  if ((zodSchema as { _zod?: { def?: { type?: string } } })._zod?.def?.type === 'date') {
+    jsonSchema.type = 'string';
+    jsonSchema.format = 'date-time';
+    return;
+  }
   const step = jsonSchema.multipleOf;
   if (typeof step !== 'number' || Number.isInteger(step)) return;
   delete jsonSchema.multipleOf;
@@ -426,6 +507,7 @@ function componentSchemas(named: NamedSchema[], io: 'input' | 'output'): Record<
     target: 'draft-2020-12',
     io,
     uri: (id) => SCHEMA_REF + id,
+    unrepresentable: 'any',
     override: decimalStepInWords,
   });
   const result: Record<string, JsonSchema> = {};
@@ -438,7 +520,7 @@ function componentSchemas(named: NamedSchema[], io: 'input' | 'output'): Record<
 }
 
 function parameters(where: 'path' | 'query', schema: z.ZodObject, notes: Record<string, string> = {}) {
-  const json = z.toJSONSchema(schema, { target: 'draft-2020-12', io: 'input', override: decimalStepInWords }) as {
+  const json = z.toJSONSchema(schema, { target: 'draft-2020-12', io: 'input', unrepresentable: 'any', override: decimalStepInWords }) as {
     properties?: Record<string, JsonSchema>;
     required?: string[];
   };

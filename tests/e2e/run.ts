@@ -22,16 +22,18 @@ const started = Date.now();
 
 const log = (message: string) => console.log(`[e2e ${((Date.now() - started) / 1000).toFixed(1).padStart(5)} s] ${message}`);
 
-/** Newest modification time under the inputs of `next build`. */
+/** Newest modification time among the inputs of `next build`. */
 function newestSourceTime(): number {
   const inputs = ['app', 'components', 'lib', 'db', 'public', 'proxy.ts', 'instrumentation.ts', 'next.config.ts', 'postcss.config.mjs', 'tsconfig.json', 'package.json', 'package-lock.json'];
   let newest = 0;
   const visit = (entry: string) => {
     if (!fs.existsSync(entry)) return;
     const stat = fs.statSync(entry);
+    // A folder's own time counts too: deleting or renaming a file changes only that.
+    newest = Math.max(newest, stat.mtimeMs);
     if (stat.isDirectory()) {
       for (const child of fs.readdirSync(entry)) if (child !== 'node_modules' && !child.startsWith('.')) visit(path.join(entry, child));
-    } else newest = Math.max(newest, stat.mtimeMs);
+    }
   };
   inputs.forEach(visit);
   return newest;

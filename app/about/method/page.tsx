@@ -61,6 +61,9 @@ export default function MethodPage() {
             sample. It is an estimate, sensitive to the chosen reference.
           </p>
         </section>
+        <p>
+          <Link href="/method/proposal">How a proposal is made: each rule, its formula and its source</Link> (for signed-in members of the scheme).
+        </p>
         <p className="text-sm text-brine">
           <Link href="/sign-in">Sign in</Link> · <Link href="/desk">Your desk</Link>
         </p>
