@@ -1,5 +1,5 @@
 import { sql } from 'drizzle-orm';
-import { check, index, integer, pgTable, text, timestamp, uuid } from 'drizzle-orm/pg-core';
+import { boolean, check, index, integer, pgTable, text, timestamp, uuid } from 'drizzle-orm/pg-core';
 
 export const mailStatuses = ['queued', 'sent', 'failed'] as const;
 export type MailStatus = (typeof mailStatuses)[number];
@@ -16,6 +16,10 @@ export const outgoingMail = pgTable(
     status: text('status').$type<MailStatus>().notNull().default('queued'),
     attempts: integer('attempts').notNull().default(0),
     lastError: text('last_error'),
+    // The rendered message, kept so a failed hand-over can be retried as it was; attachments are not kept.
+    html: text('html'),
+    text: text('text'),
+    hasAttachments: boolean('has_attachments').notNull().default(false),
     messageId: text('message_id'),
     createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
     sentAt: timestamp('sent_at', { withTimezone: true }),

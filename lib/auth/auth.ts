@@ -3,6 +3,8 @@ import { betterAuth } from 'better-auth';
 import { drizzleAdapter } from 'better-auth/adapters/drizzle';
 import { admin } from 'better-auth/plugins';
 import { nextCookies } from 'better-auth/next-js';
+import { APIError, createAuthMiddleware } from 'better-auth/api';
+import { accountAttemptBlocked, clearAccountAttempts } from './account-throttle';
 import { getDb } from '@/db/client';
 import * as schema from '@/db/schema';
 import { env } from '@/lib/env';
@@ -14,6 +16,7 @@ export const PASSWORD_MAX_LENGTH = 128;
 
 function createAuth() {
   const settings = env();
+  const rateLimited = settings.APP_ENV !== 'test' || process.env.COUNTERSAMPLE_RATE_LIMIT === 'on';
   return betterAuth({
     appName: 'Countersample',
     baseURL: settings.BETTER_AUTH_URL,
@@ -52,7 +55,7 @@ function createAuth() {
       cookieCache: { enabled: false },
     },
     rateLimit: {
-      enabled: settings.APP_ENV !== 'test' || process.env.COUNTERSAMPLE_RATE_LIMIT === 'on',
+      enabled: rateLimited,
       storage: 'database',
       window: 60,
       max: 120,
@@ -66,6 +69,19 @@ function createAuth() {
       useSecureCookies: settings.BETTER_AUTH_URL.startsWith('https://'),
       ipAddress: { ipAddressHeaders: ['x-forwarded-for', 'x-real-ip'] },
       defaultCookieAttributes: { sameSite: 'lax', httpOnly: true },
+    },
+    hooks: {
+      before: createAuthMiddleware(async (ctx) => {
+        if (!rateLimited || ctx.path !== '/sign-in/email') return;
+        const email = typeof ctx.body?.email === 'string' ? ctx.body.email : '';
+        if (email && (await accountAttemptBlocked(email))) {
+          throw new APIError('TOO_MANY_REQUESTS', { message: 'Too many failed sign-ins for this account. Wait 15 minutes, or reset the password.' });
+        }
+      }),
+      after: createAuthMiddleware(async (ctx) => {
+        if (!rateLimited || ctx.path !== '/sign-in/email' || !ctx.context.newSession) return;
+        await clearAccountAttempts(ctx.context.newSession.user.email);
+      }),
     },
     plugins: [
       admin({ ac: accessControl, roles, defaultRole: 'supplier', adminRoles: ['admin'] }),

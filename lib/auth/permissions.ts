@@ -1,5 +1,5 @@
 import { createAccessControl } from 'better-auth/plugins/access';
-import { adminAc, defaultStatements } from 'better-auth/plugins/admin/access';
+import { defaultStatements } from 'better-auth/plugins/admin/access';
 
 /**
  * What each role may do: the one place that says it. better-auth's admin plugin uses the same
@@ -55,9 +55,12 @@ export const roles = {
     rules: ['read'],
     assessment: ['run'],
   }),
-  // Separation of duties: an administrator runs the scheme but reads and decides no case.
+  // Separation of duties: an administrator runs the scheme but reads and decides no case. Of
+  // better-auth's user powers it keeps only looking and barring: accounts come from invitations, and
+  // nobody can change a role, set a password or act as someone else.
   admin: accessControl.newRole({
-    ...adminAc.statements,
+    user: ['list', 'get', 'ban'],
+    session: ['list', 'revoke'],
     organisation: ['read', 'manage'],
     invitation: ['create', 'revoke'],
     instrument: ['read', 'manage'],
@@ -74,7 +77,8 @@ export type Resource = Exclude<keyof Statement, 'user' | 'session'>;
 export type Action<R extends Resource> = Statement[R][number];
 
 export function isRole(value: unknown): value is Role {
-  return typeof value === 'string' && value in roles;
+  // Own keys only: 'constructor' or '__proto__' is no role.
+  return typeof value === 'string' && Object.hasOwn(roles, value);
 }
 
 /** Whether a role may perform an action at all; which records it may touch is the data layer's business. */

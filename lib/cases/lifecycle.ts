@@ -27,7 +27,7 @@ export const transitions: Record<TransitionName, TransitionSpec> = {
 export const transitionNames = Object.keys(transitions) as TransitionName[];
 
 export function isTransitionName(value: string): value is TransitionName {
-  return value in transitions;
+  return Object.hasOwn(transitions, value);
 }
 
 /** The transitions a role could make from a state, for showing the right buttons. */

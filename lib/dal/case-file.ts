@@ -22,6 +22,12 @@ import type { Actor } from '@/lib/auth/actor';
 import { findVisibleCase } from './cases';
 import { isBlindFor } from './case-scope';
 
+function redactedChange(change: unknown): unknown {
+  if (!change || typeof change !== 'object') return change;
+  const { detail: _withheld, ...rest } = change as Record<string, unknown>;
+  return rest;
+}
+
 /** Everything one actor may see of one case, as plain data for the Case file page and the API. */
 export async function getCaseFile(db: DbOrTx, actor: Actor, caseId: string) {
   const found = await findVisibleCase(db, actor, caseId);
@@ -32,7 +38,12 @@ export async function getCaseFile(db: DbOrTx, actor: Actor, caseId: string) {
   );
   const [result] = await db.select().from(intakeResult).where(eq(intakeResult.id, found.intakeResultId));
   // Blind: the laboratory's view holds only the sets of this case, never the intake set.
-  const setScope = blind || !result ? eq(measurementSet.caseId, found.id) : or(eq(measurementSet.caseId, found.id), eq(measurementSet.id, result.measurementSetId));
+  // Blind, a laboratory sees only its own sets: not the intake set, nor an earlier referee's retest.
+  const setScope = blind
+    ? and(eq(measurementSet.caseId, found.id), eq(measurementSet.organisationId, actor.organisationId))
+    : result
+      ? or(eq(measurementSet.caseId, found.id), eq(measurementSet.id, result.measurementSetId))
+      : eq(measurementSet.caseId, found.id);
   const [orgs, [load], [rules], samples, sets, notes, decisions, ledger, files] = await Promise.all([
     db.select({ id: organisation.id, name: organisation.name, kind: organisation.kind }).from(organisation).where(inArray(organisation.id, orgIds)),
     db
@@ -90,7 +101,13 @@ export async function getCaseFile(db: DbOrTx, actor: Actor, caseId: string) {
       })
       .from(note)
       .innerJoin(user, eq(user.id, note.authorUserId))
-      .where(and(eq(note.caseId, found.id), or(eq(note.visibility, 'parties'), eq(note.organisationId, actor.organisationId))))
+      .where(
+        and(
+          eq(note.caseId, found.id),
+          // Other parties' notes may argue about values, so a blind laboratory reads only its own.
+          blind ? eq(note.organisationId, actor.organisationId) : or(eq(note.visibility, 'parties'), eq(note.organisationId, actor.organisationId)),
+        ),
+      )
       .orderBy(asc(note.createdAt)),
     db.select().from(decision).where(eq(decision.caseId, found.id)).orderBy(desc(decision.signedAt)),
     db
@@ -103,7 +120,8 @@ export async function getCaseFile(db: DbOrTx, actor: Actor, caseId: string) {
       .select({ id: attachment.id, kind: attachment.kind, caption: attachment.caption, fileName: attachment.fileName, contentType: attachment.contentType, sizeBytes: attachment.sizeBytes, sha256: attachment.sha256, createdAt: attachment.createdAt, removedAt: attachment.removedAt, uploaderName: user.name })
       .from(attachment)
       .innerJoin(user, eq(user.id, attachment.uploadedBy))
-      .where(eq(attachment.caseId, found.id))
+      // Another party's lab sheet may show the intake readings: withheld while blind.
+      .where(and(eq(attachment.caseId, found.id), blind ? eq(attachment.organisationId, actor.organisationId) : undefined))
       .orderBy(asc(attachment.createdAt)),
   ]);
 
@@ -164,7 +182,18 @@ export async function getCaseFile(db: DbOrTx, actor: Actor, caseId: string) {
       sampledAt: s.sampledAt,
       custody: custody
         .filter((c) => c.sampleId === s.id)
-        .map((c) => ({ id: c.id, kind: c.kind, at: c.at, organisation: orgName(c.organisationId), location: c.location, tempTenthMilliC: c.tempTenthMilliC, sealIntact: c.sealIntact, frozen: c.frozen, note: c.note })),
+        .map((c) => ({
+          id: c.id,
+          kind: c.kind,
+          at: c.at,
+          organisation: orgName(c.organisationId),
+          location: c.location,
+          tempTenthMilliC: c.tempTenthMilliC,
+          sealIntact: c.sealIntact,
+          frozen: c.frozen,
+          // A note on another party's custody step may carry its argument; withheld while blind.
+          note: blind && c.organisationId !== actor.organisationId ? null : c.note,
+        })),
     })),
     measurementSets: sets.map((set) => ({
       ...set,
@@ -185,7 +214,12 @@ export async function getCaseFile(db: DbOrTx, actor: Actor, caseId: string) {
       supersedesId: d.supersedesId,
     })),
     attachments: files,
-    ledger: ledger.map((e) => ({ ...e, actorOrganisation: orgName(e.actorOrganisationId) })),
+    // Blind, the ledger shows who did what and when, not the details other parties recorded.
+    ledger: ledger.map((e) => ({
+      ...e,
+      change: blind && e.actorOrganisationId !== actor.organisationId ? redactedChange(e.change) : e.change,
+      actorOrganisation: orgName(e.actorOrganisationId),
+    })),
   };
 }
 

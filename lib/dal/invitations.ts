@@ -9,7 +9,8 @@ import { assertCan } from '@/lib/auth/session';
 import { organisationKindForRole, roleLabels, type Role } from '@/lib/auth/permissions';
 import { recordAudit } from '@/lib/audit/record';
 import { sha256Hex } from '@/lib/canonical-json';
-import { AppError } from '@/lib/errors';
+import { AppError, invalidInput } from '@/lib/errors';
+import { acceptInvitationSchema } from '@/lib/auth/schemas';
 import { env } from '@/lib/env';
 import { formatDateTime } from '@/lib/format/dates';
 import { sendInvitationMail } from '@/lib/mail/auth-mails';
@@ -61,7 +62,11 @@ export async function findOpenInvitation(db: Db, token: string) {
   return row ?? null;
 }
 
-export async function acceptInvitation(db: Db, input: { token: string; name: string; password: string }) {
+export async function acceptInvitation(db: Db, rawInput: { token: string; name: string; password: string }) {
+  // The data layer checks its own input: a caller that skipped the form's validation gets the same refusal.
+  const parsed = acceptInvitationSchema.safeParse({ ...rawInput, confirm: rawInput.password });
+  if (!parsed.success) throw invalidInput(parsed.error);
+  const input = parsed.data;
   // Claim the invitation first, conditionally, so a double submit creates one account at most.
   const [claimed] = await db
     .update(invitation)

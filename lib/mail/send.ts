@@ -1,7 +1,7 @@
 import 'server-only';
 import type { ReactElement } from 'react';
 import { render } from '@react-email/components';
-import { eq, sql } from 'drizzle-orm';
+import { and, asc, eq, isNotNull, lt, sql } from 'drizzle-orm';
 import { getDb } from '@/db/client';
 import { outgoingMail } from '@/db/schema';
 import { mailTransport } from './transport';
@@ -19,36 +19,65 @@ export type OutgoingMessage = {
 
 /**
  * Records the message, then hands it to SMTP. A failed hand-over is recorded, not thrown: the change
- * that caused the mail has already committed, and the scheduled job retries what failed.
+ * that caused the mail has already committed, and the scheduled job retries what failed (retryFailedMail).
  */
 export async function sendMail(message: OutgoingMessage): Promise<{ id: string; status: 'sent' | 'failed' }> {
   const db = getDb();
+  const [html, text] = await Promise.all([render(message.body), render(message.body, { plainText: true })]);
   const [row] = await db
     .insert(outgoingMail)
-    .values({ to: message.to, subject: message.subject, template: message.template, caseId: message.caseId })
+    .values({ to: message.to, subject: message.subject, template: message.template, caseId: message.caseId, html, text, hasAttachments: !!message.attachments?.length })
     .returning({ id: outgoingMail.id });
-  const [html, text] = await Promise.all([render(message.body), render(message.body, { plainText: true })]);
+  return handOver(row.id, { to: message.to, subject: message.subject, template: message.template, html, text, attachments: message.attachments });
+}
+
+type Rendered = { to: string[]; subject: string; template: string; html: string; text: string; attachments?: MailAttachment[] };
+
+async function handOver(id: string, message: Rendered): Promise<{ id: string; status: 'sent' | 'failed' }> {
+  const db = getDb();
   try {
     const info = await mailTransport().sendMail({
       to: message.to,
       subject: message.subject,
-      html,
-      text,
+      html: message.html,
+      text: message.text,
       attachments: message.attachments,
       headers: { 'X-Countersample-Template': message.template },
     });
     await db
       .update(outgoingMail)
       .set({ status: 'sent', sentAt: new Date(), messageId: info.messageId, attempts: sql`${outgoingMail.attempts} + 1` })
-      .where(eq(outgoingMail.id, row.id));
-    return { id: row.id, status: 'sent' };
+      .where(eq(outgoingMail.id, id));
+    return { id, status: 'sent' };
   } catch (error) {
     const reason = error instanceof Error ? error.message : String(error);
-    console.error(`Mail ${row.id} (${message.template}) could not be handed to SMTP: ${reason}`);
+    console.error(`Mail ${id} (${message.template}) could not be handed to SMTP: ${reason}`);
     await db
       .update(outgoingMail)
       .set({ status: 'failed', lastError: reason.slice(0, 500), attempts: sql`${outgoingMail.attempts} + 1` })
-      .where(eq(outgoingMail.id, row.id));
-    return { id: row.id, status: 'failed' };
+      .where(eq(outgoingMail.id, id));
+    return { id, status: 'failed' };
   }
+}
+
+const MAX_ATTEMPTS = 5;
+
+/**
+ * Hands failed messages to SMTP again, oldest first, up to five attempts each. A message that had
+ * attachments is not retried (they are not kept); it stays failed and is listed for the administrator.
+ */
+export async function retryFailedMail(limit = 50): Promise<{ retried: number; sent: number }> {
+  const db = getDb();
+  const rows = await db
+    .select()
+    .from(outgoingMail)
+    .where(and(eq(outgoingMail.status, 'failed'), lt(outgoingMail.attempts, MAX_ATTEMPTS), eq(outgoingMail.hasAttachments, false), isNotNull(outgoingMail.html)))
+    .orderBy(asc(outgoingMail.createdAt))
+    .limit(limit);
+  let sent = 0;
+  for (const row of rows) {
+    const result = await handOver(row.id, { to: row.to, subject: row.subject, template: row.template, html: row.html ?? '', text: row.text ?? '' });
+    if (result.status === 'sent') sent++;
+  }
+  return { retried: rows.length, sent };
 }

@@ -214,7 +214,7 @@ async function seed(baseUrl: string) {
     }
 
     const cases = await db
-      .select({ id: schema.disputeCase.id, number: schema.disputeCase.number, status: schema.disputeCase.status, supplier: schema.organisation.name })
+      .select({ id: schema.disputeCase.id, number: schema.disputeCase.number, status: schema.disputeCase.status, deliveryId: schema.disputeCase.deliveryId, supplier: schema.organisation.name })
       .from(schema.disputeCase)
       .innerJoin(schema.organisation, eq(schema.organisation.id, schema.disputeCase.supplierOrganisationId));
     const firstSupplier = demoOrganisations.suppliers[0].name;
@@ -226,6 +226,7 @@ async function seed(baseUrl: string) {
       accounts: demoUsers.map((u) => ({ key: u.key, email: u.email, name: u.name, role: u.role })),
       cookies,
       caseOfSupplier: { id: caseOfSupplier.id, number: caseOfSupplier.number },
+      deliveryOfSupplier: { id: caseOfSupplier.deliveryId },
     };
   } finally {
     await closeDb();

@@ -8,6 +8,8 @@ export type E2EFixtures = {
   /** A ready session cookie header per demo account, opened through the API before the server started. */
   cookies: Record<string, string>;
   caseOfSupplier: { id: string; number: string };
+  /** A delivery of supplier@'s organisation, for the page that opens a dispute. */
+  deliveryOfSupplier: { id: string };
 };
 
 export function fixtures(): E2EFixtures {

@@ -1,8 +1,0 @@
-export default function Loading() {
-  return (
-    <div role="status" aria-live="polite" className="flex items-center gap-3 py-12 text-brine">
-      <span aria-hidden="true" className="h-4 w-4 animate-spin rounded-full border-2 border-frost border-t-transparent" />
-      Loading…
-    </div>
-  );
-}
