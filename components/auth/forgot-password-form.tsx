@@ -28,7 +28,7 @@ export function ForgotPasswordForm() {
   });
 
   return (
-    <form onSubmit={onSubmit} noValidate className="flex flex-col gap-4">
+    <form method="post" onSubmit={onSubmit} noValidate className="flex flex-col gap-4">
       {outcome ? <FormMessage tone={outcome.tone}>{outcome.text}</FormMessage> : null}
       <Field id="email" label="E-mail address" error={errors.email?.message}>
         <TextInput id="email" type="email" autoComplete="username" invalid={!!errors.email} aria-describedby={errors.email ? 'email-error' : undefined} {...register('email')} />

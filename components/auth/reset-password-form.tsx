@@ -29,7 +29,7 @@ export function ResetPasswordForm({ token }: { token: string }) {
   });
 
   return (
-    <form onSubmit={onSubmit} noValidate className="flex flex-col gap-4">
+    <form method="post" onSubmit={onSubmit} noValidate className="flex flex-col gap-4">
       {failure ? <FormMessage tone="error">{failure}</FormMessage> : null}
       <Field id="password" label="New password" hint={`At least ${PASSWORD_MIN} characters. A short sentence is easy to remember.`} error={errors.password?.message}>
         <TextInput id="password" type="password" autoComplete="new-password" invalid={!!errors.password} aria-describedby={errors.password ? 'password-error' : 'password-hint'} {...register('password')} />

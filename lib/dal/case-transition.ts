@@ -1,7 +1,7 @@
 import 'server-only';
 import { and, eq, inArray } from 'drizzle-orm';
 import type { Db } from '@/db/client';
-import { disputeCase } from '@/db/schema';
+import { disputeCase, type CaseStatus } from '@/db/schema';
 import type { Actor } from '@/lib/auth/actor';
 import { can } from '@/lib/auth/permissions';
 import { recordAudit } from '@/lib/audit/record';
@@ -41,7 +41,7 @@ export async function runTransition<N extends TransitionName>(
   caseId: string,
   name: N,
   rawInput: unknown,
-  context: { origin?: string; now?: Date } = {},
+  context: { origin?: string; now?: Date; expectedStatus?: CaseStatus } = {},
 ): Promise<TransitionOutcome> {
   const spec = transitions[name];
   const [visible] = await db.select({ id: disputeCase.id }).from(disputeCase).where(and(eq(disputeCase.id, caseId), caseVisibility(actor)));
@@ -54,7 +54,9 @@ export async function runTransition<N extends TransitionName>(
 
   const { row, effect, from } = await db.transaction(async (tx) => {
     const [locked] = await tx.select().from(disputeCase).where(eq(disputeCase.id, caseId)).for('update');
-    if (!spec.from.includes(locked.status)) {
+    // A form or client that says which state it saw gets 409 when the case has moved on since,
+    // even if the transition would still be allowed from the new state.
+    if (!spec.from.includes(locked.status) || (context.expectedStatus && context.expectedStatus !== locked.status)) {
       throw new AppError('conflict', `This case is now “${caseStatusLabel(locked.status)}”, so it cannot be changed that way. Reload the case to see what happened.`);
     }
     const rules = await rulesVersion(tx, locked.rulesVersionId);

@@ -268,9 +268,7 @@ describe('every route, every role', () => {
     }
   });
 
-  // KNOWN BUG (reported): isTransitionName() in lib/cases/lifecycle.ts uses `value in transitions`,
-  // so 'constructor' passes and the route fails with a 500. Turn into `it(...)` once it uses Object.hasOwn.
-  it.fails('POST /api/v1/cases/{id}/transitions/{name} answers 404, not 500, for names inherited from Object.prototype', async () => {
+  it('POST /api/v1/cases/{id}/transitions/{name} answers 404, not 500, for names inherited from Object.prototype', async () => {
     for (const transition of ['constructor', 'toString', '__proto__']) {
       const params = { caseId: supplierCaseId, transition };
       const response = await callRoute(transitionRoute, `/api/v1/cases/${supplierCaseId}/transitions/${transition}`, { cookie: cookieOf('plant'), method: 'POST', body: {}, params });

@@ -489,6 +489,8 @@ describe('concurrency', () => {
     expect(await L.auditSince(seq)).toHaveLength(1);
   });
 
+  // Both parties saw the case open; whichever commits second finds it moved on and gets 409, on
+  // either engine (a withdrawal would otherwise still be allowed after a dispatch).
   it('settles a withdrawal racing a dispatch on one winner, with the state and custody of that winner only', async () => {
     const c = await L.freshCaseIn(world, 'open');
     const dispatchBody = await L.inputs.dispatch(world, c.id);
@@ -496,8 +498,8 @@ describe('concurrency', () => {
     const before = await L.snapshot(c.id);
 
     const [withdrawal, dispatch] = await Promise.allSettled([
-      runTransition(getDb(), world.actors.supplier, c.id, 'withdraw', L.inputs.withdraw(world)),
-      runTransition(getDb(), world.actors.plant, c.id, 'dispatch', dispatchBody),
+      runTransition(getDb(), world.actors.supplier, c.id, 'withdraw', L.inputs.withdraw(world), { expectedStatus: 'open' }),
+      runTransition(getDb(), world.actors.plant, c.id, 'dispatch', dispatchBody, { expectedStatus: 'open' }),
     ]);
 
     expect([withdrawal.status, dispatch.status].sort()).toEqual(['fulfilled', 'rejected']);

@@ -53,7 +53,7 @@ export function BenchForm({ caseId, instruments, rules, analystName }: { caseId:
         { value: '' as unknown as number, flag: 'none' },
       ],
     },
-    (values) => transitionCase(caseId, 'submit_retest', values),
+    (values) => transitionCase(caseId, 'submit_retest', values, 'retest'),
   );
   const { register, control, formState } = form;
   const e = formState.errors;

@@ -11,7 +11,7 @@ export function DispatchForm({ caseId, laboratories, sealNumber }: { caseId: str
   const { form, state, onSubmit } = useServerForm(
     dispatchSchema,
     { labOrganisationId: laboratories.length === 1 ? laboratories[0].id : '', sealNumber: '', courier: '', temperature: '' as unknown as number, sealIntact: false, answer: '' },
-    (values) => transitionCase(caseId, 'dispatch', values),
+    (values) => transitionCase(caseId, 'dispatch', values, 'open'),
   );
   const { register, formState } = form;
   const e = formState.errors;

@@ -11,7 +11,7 @@ export function FurtherTestForm({ caseId, laboratories, suggestedCode }: { caseI
   const { form, state, onSubmit } = useServerForm(
     orderFurtherTestSchema,
     { kind: 'third_laboratory', labOrganisationId: '', sampleCode: suggestedCode, sealNumber: '', sampledAt: '' as unknown as Date, reasons: '' },
-    (values) => transitionCase(caseId, 'order_further_test', values),
+    (values) => transitionCase(caseId, 'order_further_test', values, 'review'),
   );
   const { register, formState } = form;
   const e = formState.errors;

@@ -9,7 +9,7 @@ import { FormPanel, Outcome } from './form-bits';
 
 export function ReceiveForm({ caseId, sampleCode }: { caseId: string; sampleCode: string | null }) {
   const { form, state, onSubmit } = useServerForm(receiveSchema, { sealNumber: '', sealIntact: false, frozen: false, temperature: '' as unknown as number, condition: '' }, (values) =>
-    transitionCase(caseId, 'receive', values),
+    transitionCase(caseId, 'receive', values, 'awaiting_sample'),
   );
   const { register, formState } = form;
   const e = formState.errors;

@@ -1,5 +1,6 @@
 'use client';
 
+import type { CaseStatus } from '@/db/schema/cases';
 import { withdrawSchema } from '@/lib/cases/schemas';
 import { transitionCase } from '@/app/(app)/cases/[caseId]/actions';
 import { useServerForm } from '@/components/forms/use-server-form';
@@ -7,8 +8,8 @@ import { Button } from '@/components/ui/button';
 import { Field, TextInput } from '@/components/ui/field';
 import { Outcome } from './form-bits';
 
-export function WithdrawForm({ caseId }: { caseId: string }) {
-  const { form, state, onSubmit } = useServerForm(withdrawSchema, { reason: '' }, (values) => transitionCase(caseId, 'withdraw', values));
+export function WithdrawForm({ caseId, status }: { caseId: string; status: CaseStatus }) {
+  const { form, state, onSubmit } = useServerForm(withdrawSchema, { reason: '' }, (values) => transitionCase(caseId, 'withdraw', values, status));
   const e = form.formState.errors;
   return (
     <details className="rounded-card border border-line bg-white p-4">

@@ -21,6 +21,9 @@ import { WithdrawForm } from '@/components/cases/forms/withdraw-form';
 import { FormMessage } from '@/components/ui/field';
 import { isTransitionName } from '@/lib/cases/lifecycle';
 import { successMessages } from '@/lib/cases/messages';
+import { decisionPanel } from '@/lib/dal/decision-view';
+import { DecisionForm } from '@/components/decision/decision-form';
+import { SealedDecisions } from '@/components/decision/sealed-decision';
 
 export const metadata: Metadata = { title: 'Case file' };
 
@@ -29,8 +32,8 @@ async function loadCase(caseId: string) {
   if (!z.uuid().safeParse(caseId).success) notFound();
   try {
     const db = getDb();
-    const [file, bench] = await Promise.all([getCaseFile(db, actor, caseId), caseWorkbench(db, actor, caseId)]);
-    return { file, bench, actor };
+    const [file, bench, panel] = await Promise.all([getCaseFile(db, actor, caseId), caseWorkbench(db, actor, caseId), decisionPanel(db, actor, caseId)]);
+    return { file, bench, panel, actor };
   } catch (error) {
     if (isAppError(error) && error.code === 'not_found') notFound();
     throw error;
@@ -39,8 +42,8 @@ async function loadCase(caseId: string) {
 
 export default async function CaseFilePage({ params, searchParams }: { params: Promise<{ caseId: string }>; searchParams: Promise<Record<string, string | undefined>> }) {
   const { caseId } = await params;
-  const { opened, done } = await searchParams;
-  const { file, bench, actor } = await loadCase(caseId);
+  const { opened, done, signed } = await searchParams;
+  const { file, bench, panel, actor } = await loadCase(caseId);
   const rules = bench.rules;
   const live = file.status !== 'decided' && file.status !== 'withdrawn';
   return (
@@ -71,6 +74,7 @@ export default async function CaseFilePage({ params, searchParams }: { params: P
       <div className="grid gap-6">
         {opened ? <FormMessage tone="success">Your dispute {file.number} is open. The plant and the board have been told.</FormMessage> : null}
         {done && isTransitionName(done) ? <FormMessage tone="success">{successMessages[done]}</FormMessage> : null}
+        {signed && panel.decisions.length ? <FormMessage tone="success">The decision is signed and the case sealed. The parties, the laboratory and the board have been sent the letter.</FormMessage> : null}
         {bench.allowed.includes('dispatch') ? <DispatchForm caseId={file.id} laboratories={bench.laboratories} sealNumber={bench.sample?.sealNumber ?? null} /> : null}
         {bench.allowed.includes('receive') ? <ReceiveForm caseId={file.id} sampleCode={bench.sample?.code ?? null} /> : null}
         {bench.allowed.includes('submit_retest') && rules ? (
@@ -78,14 +82,15 @@ export default async function CaseFilePage({ params, searchParams }: { params: P
         ) : null}
         {bench.proposal && (bench.hasRetest || bench.showProposal) ? <ReviewPanel assessment={bench.proposal.assessment} input={bench.proposal.input} showProposal={bench.showProposal} /> : null}
         {bench.allowed.includes('order_further_test') ? <FurtherTestForm caseId={file.id} laboratories={bench.laboratories} suggestedCode={`F-${file.number}-${file.samples.length + 1}`} /> : null}
+        {panel.form ? <DecisionForm caseId={file.id} data={panel.form} /> : null}
         <ContestedResult file={file} />
         <Readings file={file} />
         <SamplesAndCustody file={file} />
         <Evidence file={file} />
         <Notes file={file} />
-        <DecisionSection file={file} />
+        <DecisionSection file={file} sealed={panel.decisions.length ? <SealedDecisions decisions={panel.decisions} /> : undefined} />
         <Ledger file={file} />
-        {bench.allowed.includes('withdraw') ? <WithdrawForm caseId={file.id} /> : null}
+        {bench.allowed.includes('withdraw') ? <WithdrawForm caseId={file.id} status={file.status} /> : null}
       </div>
     </>
   );

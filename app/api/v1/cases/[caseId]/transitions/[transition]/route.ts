@@ -5,6 +5,7 @@ import { requestOrigin } from '@/lib/http/origin';
 import { isTransitionName } from '@/lib/cases/lifecycle';
 import { runTransition } from '@/lib/dal/case-transition';
 import { AppError } from '@/lib/errors';
+import { caseStatuses, type CaseStatus } from '@/db/schema/cases';
 
 export const dynamic = 'force-dynamic';
 
@@ -15,5 +16,9 @@ export const POST = withActor<{ caseId: string; transition: string }>(async ({ r
   const { caseId, transition } = parseParams(params, paramsSchema, 'That case or transition');
   if (!isTransitionName(transition)) throw new AppError('not_found', 'That transition does not exist.');
   const body = await readJsonBody(request);
-  return runTransition(getDb(), actor, caseId, transition, body, { origin: requestOrigin(request.headers, 'api') });
+  // Optional optimistic concurrency: If-Match names the status the client last saw.
+  const seen = request.headers.get('if-match')?.replace(/^(W\/)?"|"$/g, '');
+  const expectedStatus = seen && (caseStatuses as readonly string[]).includes(seen) ? (seen as CaseStatus) : undefined;
+  if (seen && !expectedStatus) throw new AppError('invalid', `If-Match must name a case status: ${caseStatuses.join(', ')}.`);
+  return runTransition(getDb(), actor, caseId, transition, body, { origin: requestOrigin(request.headers, 'api'), expectedStatus });
 });
