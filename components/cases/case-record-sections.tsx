@@ -1,3 +1,4 @@
+import type { ReactNode } from 'react';
 import type { CaseFile } from '@/lib/dal/case-file';
 import { formatDateTime } from '@/lib/format/dates';
 import { Card, DefinitionList, EmptyState } from '@/components/ui/card';
@@ -36,11 +37,14 @@ export function Notes({ file }: { file: CaseFile }) {
 
 const outcomeLabels: Record<string, string> = { uphold: 'Rejection upheld', reverse: 'Rejection reversed', adjust: 'Result adjusted', further_test: 'Further test ordered' };
 
-export function DecisionSection({ file }: { file: CaseFile }) {
+/** `sealed` is the full sealed view (settlement, seal, letter) when the page has it. */
+export function DecisionSection({ file, sealed }: { file: CaseFile; sealed?: ReactNode }) {
   const [current] = file.decisions;
   return (
     <Card id="decision" title="Decision">
-      {!current ? (
+      {current && sealed ? (
+        sealed
+      ) : !current ? (
         <EmptyState title={file.status === 'withdrawn' ? 'The dispute was withdrawn; there is no decision.' : 'No decision yet'}>
           {file.status === 'review' ? 'The case is before the board.' : file.status === 'withdrawn' ? null : 'The board decides after the retest.'}
         </EmptyState>
@@ -58,7 +62,7 @@ export function DecisionSection({ file }: { file: CaseFile }) {
   );
 }
 
-const actionLabels: Record<string, string> = { 'case.opened': 'Dispute opened', 'case.transitioned': 'Status changed' };
+const actionLabels: Record<string, string> = { 'case.opened': 'Dispute opened', 'case.transitioned': 'Status changed', 'decision.sealed': 'Decision signed and sealed', 'decision.letter_issued': 'Decision letter issued' };
 
 export function Ledger({ file }: { file: CaseFile }) {
   return (

@@ -86,6 +86,11 @@ export function Readings({ file }: { file: CaseFile }) {
               <p className="text-xs text-brine">
                 {set.laboratory} · instrument {set.instrumentSerial} · {set.analystName} · {formatDateTime(set.testedAt)}
               </p>
+              {set.calibrationWarning ? (
+                <p role="note" className="mt-2 rounded-control border border-amber bg-amber-soft px-2 py-1 text-xs font-bold text-amber">
+                  ▲ Recorded without a passing calibration check in force: {set.calibrationWarning}
+                </p>
+              ) : null}
               <ol className="mt-3 grid grid-cols-2 gap-1 text-sm num">
                 {set.readings.map((r) => (
                   <li key={r.position}>

@@ -14,7 +14,7 @@ const statusTone = { pass: 'success', fail: 'failure', not_applicable: 'neutral'
 const statusWord = { pass: 'Pass', fail: 'Fail', not_applicable: 'Not applicable', missing: 'Missing' } as const;
 
 const c = (v: number) => `${v.toFixed(4).replace('-', '−')} °C`;
-const mc = (v: number) => `${(v * 1000).toFixed(1).replace('-', '−')} m°C`;
+const mc = (v: number) => `${(v * 1000).toFixed(2).replace('-', '−')} m°C`;
 
 function resultText(result: Assessment['original'] | null): string {
   if (!result) return 'no retest yet';
@@ -40,7 +40,7 @@ export function ReviewPanel({ assessment, input, showProposal }: { assessment: A
           <p className="text-xs font-bold uppercase text-brine">Comparison</p>
           {assessment.comparison ? (
             <p className="text-sm">
-              difference <span className="num">{mc(assessment.comparison.difference)}</span> vs critical difference <span className="num">{mc(assessment.comparison.criticalDifference)}</span> —{' '}
+              difference <span className="num">{mc(Math.abs(assessment.comparison.difference))}</span> vs critical difference <span className="num">{mc(assessment.comparison.criticalDifference)}</span> —{' '}
               <strong>{assessment.comparison.agree ? 'they agree' : 'they disagree'}</strong>
             </p>
           ) : (

@@ -27,7 +27,9 @@ export function DeliveryTable({ items, empty, showContest }: { items: DeliveryLi
         <tbody>
           {items.map((item) => (
             <tr key={item.id} className="border-b border-line/60 align-top">
-              <td className="py-2 pr-3 font-bold num">{item.reference}</td>
+              <td className="py-2 pr-3 font-bold num">
+                <Link href={`/deliveries/${item.id}`}>{item.reference}</Link>
+              </td>
               <td className="py-2 pr-3">
                 {item.farmName}
                 <span className="block text-xs text-brine">{item.herdCode}</span>
@@ -37,25 +39,25 @@ export function DeliveryTable({ items, empty, showContest }: { items: DeliveryLi
               <td className="py-2 pr-3 text-right num">{formatCelsius(item.valueTenthMilliC)}</td>
               <td className="py-2 pr-3">
                 <VerdictBadge verdict={item.verdict} />
-                {item.verdict !== 'accepted' ? (
-                  <span className="mt-1 block text-xs text-brine">
-                    limit {formatCelsius(item.limitTenthMilliC)} · rules v{item.rulesVersion}
-                  </span>
-                ) : null}
+                <span className="mt-1 block text-xs text-brine">
+                  limit {formatCelsius(item.limitTenthMilliC)} · rules v{item.rulesVersion}
+                </span>
               </td>
               <td className="py-2 pr-3 text-right num">{item.amountMinor ? formatMoney(item.amountMinor, item.currency) : '—'}</td>
               <td className="py-2">
                 {item.caseId ? (
                   <Link href={`/cases/${item.caseId}`}>{item.caseNumber}</Link>
-                ) : showContest && item.contestable && item.contestDeadline ? (
+                ) : item.contestable && item.contestDeadline ? (
                   <div className="grid gap-1">
-                    <Link href={`/deliveries/${item.id}/dispute`} className="font-bold">
-                      Open a dispute
-                    </Link>
+                    {showContest ? (
+                      <Link href={`/deliveries/${item.id}/dispute`} className="font-bold">
+                        Open a dispute
+                      </Link>
+                    ) : null}
                     <Deadline label="Contest by" due={item.contestDeadline} />
                   </div>
                 ) : item.verdict !== 'accepted' ? (
-                  <span className="text-xs text-brine">contest window closed</span>
+                  <span className="text-xs text-brine">{item.contestDeadline ? 'contest window closed' : 'supplier not yet told'}</span>
                 ) : null}
               </td>
             </tr>

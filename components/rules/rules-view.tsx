@@ -30,6 +30,7 @@ export function RulesView({ current, versions }: { current: RulesVersion | null;
           <DefinitionList
             items={[
               { term: 'Calibration check', detail: `${r.calibration.required} of ${r.calibration.readings} readings within ±${formatMilliC(toTenthMilliC(r.calibration.tolerance))} of ${c(r.calibration.nominal)}, valid ${r.calibration.validHours} h` },
+              { term: 'Unfit instrument', detail: r.calibration.allowUnfitWithWarning ? 'results recorded with a warning' : 'intake tests refused' },
               { term: 'Sample validity', detail: `${r.sample.validHours} h after sampling, stored ${r.sample.storageRange.min}–${r.sample.storageRange.max} °C` },
               { term: 'Contest window', detail: `${r.deadlines.contestHours} h after notice` },
               { term: 'Dispatch of the sample', detail: `within ${r.deadlines.dispatchHours} h of the dispute` },
@@ -44,13 +45,21 @@ export function RulesView({ current, versions }: { current: RulesVersion | null;
       <Card title="Versions">
         <ol className="grid gap-1 text-sm">
           {versions.map((v) => (
-            <li key={v.id} className="flex flex-wrap gap-3">
+            <li key={v.id} className="flex flex-wrap items-center gap-3">
               <span className="font-bold num">v{v.version}</span>
               <span className="num">from {formatDateTime(v.effectiveFrom)}</span>
+              {v.id === current.id ? (
+                <Badge tone="success">In force</Badge>
+              ) : v.effectiveFrom.getTime() > current.effectiveFrom.getTime() ? (
+                <Badge tone="action">Scheduled</Badge>
+              ) : (
+                <Badge tone="neutral">Earlier</Badge>
+              )}
               <span className="text-brine">{v.note}</span>
             </li>
           ))}
         </ol>
+        <p className="mt-3 text-xs text-brine">Every intake result, calibration check and case keeps the version it was made under; a new version applies only to what is made after it takes effect.</p>
       </Card>
     </div>
   );

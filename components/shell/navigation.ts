@@ -9,6 +9,9 @@ export function navigationFor(actor: Actor): NavItem[] {
   const items: NavItem[] = [{ href: '/desk', label: 'Desk' }];
   if (can(actor.role, 'case', 'list')) items.push({ href: '/cases', label: 'Cases' });
   if (can(actor.role, 'delivery', 'list')) items.push({ href: '/deliveries', label: 'Deliveries' });
+  if (can(actor.role, 'case', 'decide')) items.push({ href: '/board', label: 'Board' });
+  if (can(actor.role, 'intake', 'record')) items.push({ href: '/intake', label: 'Intake' });
+  if (can(actor.role, 'instrument', 'read')) items.push({ href: '/instruments', label: 'Instruments' });
   if (can(actor.role, 'organisation', 'manage')) items.push({ href: '/admin/organisations', label: 'Organisations' });
   if (can(actor.role, 'invitation', 'create')) items.push({ href: '/admin/users', label: 'People' });
   if (can(actor.role, 'rules', 'edit')) items.push({ href: '/admin/rules', label: 'Rules' });

@@ -29,6 +29,9 @@ export const measurementSet = pgTable(
       .notNull()
       .references(() => instrument.id),
     calibrationCheckId: uuid('calibration_check_id').references(() => calibrationCheck.id),
+    // Set when the set was recorded on an instrument without a passing check in force, as the scheme
+    // may allow: the warning travels with the readings so the board weighs them knowingly.
+    calibrationWarning: text('calibration_warning'),
     purpose: text('purpose').$type<MeasurementPurpose>().notNull(),
     analystName: text('analyst_name').notNull(),
     testedAt: timestamp('tested_at', { withTimezone: true }).notNull(),

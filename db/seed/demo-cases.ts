@@ -1,14 +1,19 @@
 import { addBusinessDays } from 'date-fns';
+import { eq } from 'drizzle-orm';
 import type { Db } from '@/db/client';
-import { calibrationCheck, custodyEvent, decision, disputeCase, measurementSet, note, reading, type CaseStatus, type DisputeGround } from '@/db/schema';
-import { assess, calibrationCheck as checkCalibration, finalResult } from '@/lib/arbitration';
+import { calibrationCheck, custodyEvent, disputeCase, measurementSet, note, reading, type CaseStatus, type DisputeGround } from '@/db/schema';
+import { calibrationCheck as checkCalibration, finalResult } from '@/lib/arbitration';
 import { recordAudit } from '@/lib/audit/record';
-import { assessmentRules } from '@/lib/rules/to-assessment';
+import { decisionBasis, settlementOrRefusal } from '@/lib/dal/decision-draft';
+import { insertSealedDecision } from '@/lib/dal/decision-seal';
+import { SIGNATURE_MEANING } from '@/lib/decision/labels';
 import type { SchemeRules } from '@/lib/rules/schema';
 import { toTenthMilliC } from '@/lib/temperature';
 import type { SeededDelivery } from './demo-deliveries';
 
 const HOUR = 3_600_000;
+// What a seeded decision records as its re-authentication: there was none.
+export const DEMO_REAUTHENTICATION = 'none (demo seed)';
 
 type Party = { userId: string; organisationId: string };
 export type CaseParties = {
@@ -190,42 +195,6 @@ export async function seedCase(db: Db, plan: DemoCasePlan, load: SeededDelivery,
   }
   if (custody.length) await db.insert(custodyEvent).values(custody);
 
-  if (plan.status === 'decided' && plan.decision && plan.retestReadings && labCheck) {
-    const proposal = assess({
-      rules: assessmentRules(rules),
-      original: { readings: load.readings, testedAt: load.testedAt.toISOString(), calibration: { nominal: rules.calibration.nominal, readings: load.calibrationReadings } },
-      retest: {
-        readings: plan.retestReadings,
-        testedAt: retestAt.toISOString(),
-        calibration: { nominal: rules.calibration.nominal, readings: labCheck.readings },
-        sample: { sampledAt: load.collectedAt.toISOString(), sealIntact: true, frozen: false, custodyComplete: true, storageTemperatures: [4.1, 4.6, 4.4] },
-      },
-    });
-    const followed = proposal.outcome === plan.decision.outcome;
-    await db.insert(decision).values({
-      caseId,
-      outcome: plan.decision.outcome,
-      reasons: plan.decision.reasons,
-      followedProposal: followed,
-      departureReason: followed ? null : 'The board weighed the herd history supplied by the supplier.',
-      proposal,
-      settlement: { note: 'Settlement figures are computed when the decision is signed in the product.' },
-      signerUserId: parties.arbiter.userId,
-      signerName: parties.arbiter.name,
-      signedAt: decidedAt,
-      signatureMeaning: 'binding decision',
-      reauthenticatedAt: decidedAt,
-      reauthenticationMethod: 'password',
-    });
-    await recordAudit(db, audit(parties.arbiter, decidedAt), {
-      action: 'case.transitioned',
-      objectType: 'case',
-      objectId: caseId,
-      caseId,
-      change: { from: 'review', to: 'decided', transition: 'decide', detail: { outcome: plan.decision.outcome } },
-    });
-  }
-
   if (plan.notes?.length) {
     const authorOf = { supplier, plant: parties.plant, lab: parties.lab, arbiter: parties.arbiter };
     await db.insert(note).values(
@@ -239,5 +208,51 @@ export async function seedCase(db: Db, plan: DemoCasePlan, load: SeededDelivery,
       })),
     );
   }
+  // Sealed last, through the product's own path, so the record it hashes holds everything above.
+  if (plan.status === 'decided' && plan.decision && plan.retestReadings && labCheck) {
+    await sealDemoDecision(db, caseId, plan.decision, parties.arbiter, decidedAt);
+  }
   return caseId;
+}
+
+/**
+ * Signs a demo decision as the product does, minus the password: the seed has none to ask for, and
+ * the record says so rather than claiming a re-authentication that did not happen.
+ */
+async function sealDemoDecision(db: Db, caseId: string, planned: NonNullable<DemoCasePlan['decision']>, arbiter: Party & { name: string }, decidedAt: Date): Promise<void> {
+  const audit = { actorUserId: arbiter.userId, actorOrganisationId: arbiter.organisationId, origin: 'demo seed', at: decidedAt };
+  await db.transaction(async (tx) => {
+    const [row] = await tx.select().from(disputeCase).where(eq(disputeCase.id, caseId));
+    const basis = await decisionBasis(tx, row);
+    const followedProposal = basis.proposal.assessment.outcome === planned.outcome;
+    const sealed = await insertSealedDecision(tx, {
+      caseId,
+      outcome: planned.outcome,
+      reasons: planned.reasons,
+      followedProposal,
+      departureReason: followedProposal ? null : 'The board weighed the herd history supplied by the supplier.',
+      proposal: basis.proposal,
+      settlement: settlementOrRefusal(basis, planned.outcome),
+      signer: { userId: arbiter.userId, name: arbiter.name },
+      signedAt: decidedAt,
+      signatureMeaning: SIGNATURE_MEANING,
+      reauthenticatedAt: decidedAt,
+      reauthenticationMethod: DEMO_REAUTHENTICATION,
+      supersedes: null,
+    });
+    await recordAudit(tx, audit, {
+      action: 'case.transitioned',
+      objectType: 'case',
+      objectId: caseId,
+      caseId,
+      change: { from: 'review', to: 'decided', transition: 'decide', detail: { decisionId: sealed.id, outcome: planned.outcome, followedProposal } },
+    });
+    await recordAudit(tx, audit, {
+      action: 'decision.sealed',
+      objectType: 'decision',
+      objectId: sealed.id,
+      caseId,
+      change: { outcome: planned.outcome, followedProposal, recordSha256: sealed.recordSha256, signingKeyId: sealed.signingKeyId, signatureMeaning: SIGNATURE_MEANING, reauthenticationMethod: DEMO_REAUTHENTICATION, supersedesId: null, correctionReason: null },
+    });
+  });
 }

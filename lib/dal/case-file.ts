@@ -83,6 +83,7 @@ export async function getCaseFile(db: DbOrTx, actor: Actor, caseId: string) {
         submittedAt: measurementSet.submittedAt,
         instrumentSerial: instrument.serialNumber,
         calibrationCheckId: measurementSet.calibrationCheckId,
+        calibrationWarning: measurementSet.calibrationWarning,
       })
       .from(measurementSet)
       .innerJoin(instrument, eq(instrument.id, measurementSet.instrumentId))

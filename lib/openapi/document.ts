@@ -200,6 +200,7 @@ const caseFileShape = {
       submittedAt: isoDateTime().nullable(),
       instrumentSerial: z.string(),
       calibrationCheckId: z.uuid().nullable(),
+      calibrationWarning: z.string().nullable().describe("Why the set was recorded without a passing calibration check, if it was"),
       readings: z.array(
         z.object({ position: z.number().int().min(1), valueTenthMilliC: tenthMilliC('Reading'), flag: z.enum(readingFlags) }),
       ),

@@ -13,6 +13,8 @@ import { CaseTable } from '@/components/cases/case-table';
 import { DeliveryTable } from '@/components/deliveries/delivery-table';
 import { ButtonLink } from '@/components/ui/button';
 import { formatDateTime } from '@/lib/format/dates';
+import { listInstruments } from '@/lib/dal/instruments';
+import { InstrumentStatusList } from '@/components/instruments/instrument-status';
 
 export const metadata: Metadata = { title: 'Desk' };
 
@@ -44,14 +46,18 @@ export default async function DeskPage() {
   }
 
   if (actor.role === 'plant') {
-    const [rejections, cases] = await Promise.all([
+    const [rejections, cases, instruments] = await Promise.all([
       listDeliveries(db, actor, deliveryListQuerySchema.parse({ verdict: 'rejected,deducted', sinceDays: 7, pageSize: 10 })),
       listCases(db, actor, casesQuery('open,awaiting_sample,retest,review')),
+      listInstruments(db, actor, { activeOnly: true, organisationId: actor.organisationId }),
     ]);
     return (
       <>
         {header}
         <div className="grid gap-6">
+          <Card id="intake" title="Intake" actions={<ButtonLink href="/intake">Record an intake</ButtonLink>}>
+            <InstrumentStatusList instruments={instruments} />
+          </Card>
           <Card id="cases" title="Open cases" actions={<ButtonLink href="/cases" variant="secondary">All cases</ButtonLink>}>
             <CaseTable items={cases.items} empty={{ title: 'No open case.', detail: 'No supplier contests an intake result at the moment.' }} />
           </Card>

@@ -1,5 +1,6 @@
 import { addBusinessDays } from 'date-fns';
-import { and, eq } from 'drizzle-orm';
+import { and, desc, eq } from 'drizzle-orm';
+import { formatDateTime } from '@/lib/format/dates';
 import { calibrationCheck, custodyEvent, instrument, measurementSet, reading } from '@/db/schema';
 import { calibrationCheck as checkCalibration, finalResult } from '@/lib/arbitration';
 import type { TransitionInputs } from '@/lib/cases/schemas';
@@ -31,12 +32,26 @@ export async function submitRetestEffect({ tx, actor, caseRow, input, now, rules
   }
   const sample = await currentSample(tx, caseRow);
   if (!sample) throw new AppError('conflict', 'No sample was received for this case.');
+  const [receipt] = await tx
+    .select({ at: custodyEvent.at })
+    .from(custodyEvent)
+    .where(and(eq(custodyEvent.sampleId, sample.id), eq(custodyEvent.kind, 'received')))
+    .orderBy(desc(custodyEvent.at))
+    .limit(1);
+  // The form gives minutes only: a test in the minute of receipt counts as after it; earlier is refused.
+  const receivedMinute = receipt ? Math.floor(receipt.at.getTime() / 60_000) * 60_000 : null;
+  if (receivedMinute !== null && input.testedAt.getTime() < receivedMinute) {
+    throw new AppError('invalid', 'The test cannot be dated before the sample was received.', {
+      fieldErrors: { testedAt: [`The sample was received at ${formatDateTime(receipt!.at)}.`] },
+    });
+  }
+  const testedAt = receipt && input.testedAt.getTime() < receipt.at.getTime() ? receipt.at : input.testedAt;
 
   const [check] = await tx
     .insert(calibrationCheck)
     .values({
       instrumentId: device.id,
-      checkedAt: input.testedAt,
+      checkedAt: testedAt,
       checkedBy: actor.userId,
       analystName: input.analystName,
       nominalTenthMilliC: toTenthMilliC(rules.calibration.nominal),
@@ -45,7 +60,7 @@ export async function submitRetestEffect({ tx, actor, caseRow, input, now, rules
       required: rules.calibration.required,
       within: calibration.within,
       pass: calibration.pass,
-      validUntil: new Date(input.testedAt.getTime() + rules.calibration.validHours * 3_600_000),
+      validUntil: new Date(testedAt.getTime() + rules.calibration.validHours * 3_600_000),
       rulesVersionId: caseRow.rulesVersionId,
     })
     .returning({ id: calibrationCheck.id });
@@ -60,7 +75,7 @@ export async function submitRetestEffect({ tx, actor, caseRow, input, now, rules
       calibrationCheckId: check.id,
       purpose,
       analystName: input.analystName,
-      testedAt: input.testedAt,
+      testedAt: testedAt,
       sampleTempTenthMilliC: toTenthMilliC(input.sampleTemperature),
       preparation: input.preparation,
       resultTenthMilliC: toTenthMilliC(result.value),
@@ -71,7 +86,7 @@ export async function submitRetestEffect({ tx, actor, caseRow, input, now, rules
     })
     .returning({ id: measurementSet.id });
   await tx.insert(reading).values(input.readings.map((r, i) => ({ measurementSetId: set.id, position: i + 1, valueTenthMilliC: toTenthMilliC(r.value), flag: r.flag })));
-  await tx.insert(custodyEvent).values({ sampleId: sample.id, kind: 'opened', at: input.testedAt, actorUserId: actor.userId, organisationId: actor.organisationId, location: device.description, sealIntact: null, note: 'Opened for the retest.' });
+  await tx.insert(custodyEvent).values({ sampleId: sample.id, kind: 'opened', at: testedAt, actorUserId: actor.userId, organisationId: actor.organisationId, location: device.description, sealIntact: null, note: 'Opened for the retest.' });
 
   return {
     caseChanges: { retestSubmittedAt: now, decisionDueAt: addBusinessDays(now, rules.deadlines.decisionWorkingDays) },

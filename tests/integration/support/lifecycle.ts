@@ -255,7 +255,7 @@ export const inputs = {
     return {
       instrumentId: world.labInstrumentId,
       analystName: 'I. Halloran',
-      testedAt: new Date(Date.now() - 20 * MINUTE).toISOString(),
+      testedAt: new Date().toISOString(),
       sampleTemperature: 20.1,
       preparation: 'none',
       calibrationReadings: [-0.5121, -0.5118, -0.5124, -0.5119, -0.5122],

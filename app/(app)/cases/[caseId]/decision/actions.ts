@@ -1,0 +1,22 @@
+'use server';
+
+import { headers } from 'next/headers';
+import { revalidatePath } from 'next/cache';
+import { redirect } from 'next/navigation';
+import { z } from 'zod';
+import { getDb } from '@/db/client';
+import { actorAction, type FormState } from '@/lib/forms/action';
+import { signDecision } from '@/lib/dal/decision-sign';
+import { requestOrigin } from '@/lib/http/origin';
+import { AppError } from '@/lib/errors';
+
+/** The decision form: the same signing the data layer does for any caller, password and all. */
+export async function signCaseDecision(caseId: string, values: unknown): Promise<FormState> {
+  return actorAction(async (actor) => {
+    if (!z.uuid().safeParse(caseId).success) throw new AppError('not_found', 'That case was not found.');
+    await signDecision(getDb(), actor, caseId, values, { origin: requestOrigin(await headers(), 'web') });
+    revalidatePath(`/cases/${caseId}`);
+    // The form goes away with the sealed case; the page itself says what happened.
+    redirect(`/cases/${caseId}?signed=1#decision`);
+  });
+}

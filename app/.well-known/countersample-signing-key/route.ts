@@ -1,0 +1,8 @@
+import { publicSigningKey } from '@/lib/decision/public-key';
+
+export const dynamic = 'force-dynamic';
+
+/** The public half of the key that seals decisions, so anyone can check a letter's signature. */
+export function GET(): Response {
+  return Response.json(publicSigningKey(), { headers: { 'cache-control': 'public, max-age=300' } });
+}

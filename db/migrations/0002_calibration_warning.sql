@@ -1,0 +1,1 @@
+ALTER TABLE "measurement_set" ADD COLUMN "calibration_warning" text;
