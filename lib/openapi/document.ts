@@ -14,6 +14,8 @@ import {
   resultBases,
   sampleKinds,
 } from '@/db/schema';
+import { defaultSchemeRules } from '@/lib/rules/defaults';
+import { assessmentRules } from '@/lib/rules/to-assessment';
 import { assessmentInputSchema, assessmentSchema, type AssessmentInput } from '@/lib/arbitration';
 import { caseListQuerySchema } from '@/lib/dal/cases-query';
 import type { CaseListPage } from '@/lib/dal/cases';
@@ -292,17 +294,7 @@ export type ApiOperation = {
 
 /** Invented readings of a disputed delivery, for the documented example. */
 const assessmentExample: AssessmentInput = {
-  rules: {
-    precision: { r: 0.004, R: 0.006 },
-    limits: { upper: -0.515, lower: -0.56 },
-    decisionRule: 'guarded_rejection',
-    onDisagreement: 'third_laboratory',
-    referenceFreezingPoint: -0.52,
-    adjustThresholdPercent: 1,
-    calibration: { tolerance: 0.004, required: 3 },
-    sampleValidHours: 48,
-    storageRange: { min: 0, max: 6 },
-  },
+  rules: assessmentRules(defaultSchemeRules),
   original: {
     readings: [-0.5112, -0.5118],
     testedAt: '2025-06-02T05:50:00+02:00',

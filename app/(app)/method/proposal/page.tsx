@@ -24,6 +24,8 @@ import {
 } from '@/lib/arbitration';
 import { celsius, milliCelsius, percent, probability } from '@/lib/arbitration/format';
 import { conformitySource, RULE_NAMES } from '@/lib/arbitration/sources';
+import { defaultSchemeRules } from '@/lib/rules/defaults';
+import { assessmentRules } from '@/lib/rules/to-assessment';
 import { requireActor } from '@/lib/auth/session';
 import { Card, DefinitionList, PageHeader } from '@/components/ui/card';
 import { Badge } from '@/components/ui/status';
@@ -33,24 +35,14 @@ export const metadata: Metadata = { title: 'How a proposal is made' };
 // Every number on this page is computed by the decision module while the page renders, so the
 // explanation cannot drift from the arithmetic that makes real proposals. All cases are invented.
 
-const PRECISION = { r: 0.004, R: 0.006 };
-const UPPER_LIMIT = -0.515;
+const PRECISION = defaultSchemeRules.precision;
+const UPPER_LIMIT = defaultSchemeRules.limits.upper;
 const RULES_IN_ORDER: readonly DecisionRule[] = ['simple', 'guarded_rejection', 'guarded_acceptance'];
 
 /** An invented disputed delivery: the intake result is just above the limit, the retest agrees with it. */
 function exampleCase(): AssessmentInput {
   return {
-    rules: {
-      precision: PRECISION,
-      limits: { upper: UPPER_LIMIT, lower: -0.56 },
-      decisionRule: 'guarded_rejection',
-      onDisagreement: 'third_laboratory',
-      referenceFreezingPoint: -0.52,
-      adjustThresholdPercent: 1,
-      calibration: { tolerance: 0.004, required: 3 },
-      sampleValidHours: 48,
-      storageRange: { min: 0, max: 6 },
-    },
+    rules: assessmentRules(defaultSchemeRules),
     original: {
       readings: [-0.5131, -0.5137],
       testedAt: '2025-06-02T05:50:00+02:00',
