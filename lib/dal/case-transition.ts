@@ -10,7 +10,7 @@ import { transitionSchemas, type TransitionInputs } from '@/lib/cases/schemas';
 import { caseStatusLabel } from '@/lib/cases/labels';
 import { AppError, invalidInput } from '@/lib/errors';
 import { notifyCase } from '@/lib/mail/case-mails';
-import { caseVisibility } from './case-scope';
+import { caseVisibility, holdsRoleOn } from './case-scope';
 import { rulesVersion } from './rules';
 import type { EffectContext, EffectResult } from './transitions/context';
 import { dispatchEffect } from './transitions/dispatch';
@@ -54,6 +54,7 @@ export async function runTransition<N extends TransitionName>(
 
   const { row, effect, from } = await db.transaction(async (tx) => {
     const [locked] = await tx.select().from(disputeCase).where(eq(disputeCase.id, caseId)).for('update');
+    if (!holdsRoleOn(actor, locked)) throw new AppError('forbidden', 'Your organisation no longer holds this case: the board has sent the sample to another laboratory.');
     // A form or client that says which state it saw gets 409 when the case has moved on since,
     // even if the transition would still be allowed from the new state.
     if (!spec.from.includes(locked.status) || (context.expectedStatus && context.expectedStatus !== locked.status)) {

@@ -8,7 +8,7 @@ import { availableTransitions } from '@/lib/cases/lifecycle';
 import { proposalFor } from './case-assessment';
 import { currentSample } from './case-samples';
 import { findVisibleCase } from './cases';
-import { isBlindFor } from './case-scope';
+import { holdsRoleOn, isBlindFor } from './case-scope';
 import { rulesVersion } from './rules';
 
 /**
@@ -17,7 +17,7 @@ import { rulesVersion } from './rules';
  */
 export async function caseWorkbench(db: DbOrTx, actor: Actor, caseId: string) {
   const row = await findVisibleCase(db, actor, caseId);
-  const allowed = availableTransitions(row.status, (permission) => can(actor.role, 'case', permission));
+  const allowed = holdsRoleOn(actor, row) ? availableTransitions(row.status, (permission) => can(actor.role, 'case', permission)) : [];
   const blind = isBlindFor(actor, row.retestSubmittedAt);
   const [rules, sample, laboratories, instruments] = await Promise.all([
     rulesVersion(db, row.rulesVersionId),

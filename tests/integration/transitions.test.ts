@@ -247,9 +247,14 @@ describe('order_further_test', () => {
     expect(events).toHaveLength(1);
     expect(events[0]).toMatchObject({ action: 'case.transitioned', actorUserId: world.actors.arbiter.userId, change: { from: 'review', to: 'awaiting_sample', transition: 'order_further_test', detail: { kind: 'third_laboratory', sampleCode: body.sampleCode } } });
 
-    // The first laboratory is no longer on the case; the new one is.
-    await L.expectAppError(runTransition(getDb(), world.actors.lab, c.id, 'receive', await L.inputs.receive(world, c.id)), 'not_found');
     const { getCaseFile } = await import('@/lib/dal/case-file');
+    // The first laboratory keeps reading the case it tested but can no longer act on it; the new one acts.
+    await L.expectAppError(runTransition(getDb(), world.actors.lab, c.id, 'receive', await L.inputs.receive(world, c.id)), 'forbidden');
+    const formerFile = await getCaseFile(getDb(), world.actors.lab, c.id);
+    expect(formerFile.number).toBe(c.number);
+    const { caseWorkbench } = await import('@/lib/dal/case-workbench');
+    expect((await caseWorkbench(getDb(), world.actors.lab, c.id)).allowed).toEqual([]);
+    expect((await caseWorkbench(getDb(), world.actors.otherLab, c.id)).allowed).toContain('receive');
     const blindFile = await getCaseFile(getDb(), world.actors.otherLab, c.id);
     expect(blindFile.blind).toBe(true);
     expect(blindFile.intake).toBeNull();
