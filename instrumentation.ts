@@ -3,6 +3,10 @@ export async function register() {
   if (process.env.NEXT_RUNTIME === 'nodejs') {
     const { migrate } = await import('./db/migrate');
     await migrate();
+    // A production server without its signing key would fail only when the first decision is
+    // signed; it refuses to start instead.
+    const { signingKey } = await import('./lib/decision/signing-key');
+    signingKey();
     if (process.env.APP_ENV !== 'test' && process.env.COUNTERSAMPLE_SCHEDULER !== 'off') {
       const { startScheduler } = await import('./lib/jobs/scheduler');
       startScheduler();

@@ -1,6 +1,8 @@
 'use server';
 
+import { headers } from 'next/headers';
 import { getDb } from '@/db/client';
+import { letterCheckAllowed, tooManyLetterChecks } from '@/lib/throttle/letter-checks';
 import { publicVerification } from '@/lib/dal/decision-verify';
 import { sha256Hex } from '@/lib/canonical-json';
 import { embeddedRecordHash, MAX_LETTER_BYTES } from '@/lib/decision/letter/marker';
@@ -17,6 +19,7 @@ const hex64 = /^[0-9a-f]{64}$/;
  */
 export async function checkLetter(formData: FormData): Promise<LetterCheckState> {
   try {
+    if (!(await letterCheckAllowed(await headers()))) return { ok: false, message: tooManyLetterChecks };
     let fileSha256 = String(formData.get('fileSha256') ?? '').toLowerCase();
     let embedded = String(formData.get('embeddedRecordSha256') ?? '').toLowerCase() || null;
     const file = formData.get('file');

@@ -1,5 +1,7 @@
 import type { Metadata } from 'next';
 import Link from 'next/link';
+import { headers } from 'next/headers';
+import { letterCheckAllowed, tooManyLetterChecks } from '@/lib/throttle/letter-checks';
 import { getDb } from '@/db/client';
 import { publicVerification } from '@/lib/dal/decision-verify';
 import { recordHashSchema } from '@/lib/decision/schemas';
@@ -20,7 +22,8 @@ export default async function VerifyPage({ searchParams }: { searchParams: Promi
   const { hash } = await searchParams;
   const typed = typeof hash === 'string' && hash.trim() !== '' ? hash : null;
   const parsed = typed === null ? null : recordHashSchema.safeParse(typed);
-  const result = parsed?.success ? await publicVerification(getDb(), { recordSha256: parsed.data }) : null;
+  const throttled = parsed?.success ? !(await letterCheckAllowed(await headers())) : false;
+  const result = parsed?.success && !throttled ? await publicVerification(getDb(), { recordSha256: parsed.data }) : null;
 
   return (
     <main id="main" className="mx-auto grid max-w-3xl gap-6 px-4 py-10">
@@ -37,8 +40,8 @@ export default async function VerifyPage({ searchParams }: { searchParams: Promi
 
       <Card id="by-hash" title="By the record hash">
         <form method="get" action="/verify" className="grid gap-3">
-          <Field id="hash" label="Record SHA-256" hint="64 hexadecimal digits, as printed under “Record SHA-256” on the letter." error={parsed && !parsed.success ? parsed.error.issues[0]?.message : undefined}>
-            <TextInput id="hash" name="hash" defaultValue={typed ?? ''} spellCheck={false} autoComplete="off" className="font-mono text-sm" invalid={!!parsed && !parsed.success} />
+          <Field id="hash" label="Record SHA-256" hint="64 hexadecimal digits, as printed under “Record SHA-256” on the letter." error={parsed && !parsed.success ? parsed.error.issues[0]?.message : throttled ? tooManyLetterChecks : undefined}>
+            <TextInput id="hash" name="hash" defaultValue={typed ?? ''} spellCheck={false} autoComplete="off" className="font-mono text-sm" invalid={(!!parsed && !parsed.success) || throttled} />
           </Field>
           <div>
             <Button type="submit">Check the hash</Button>
