@@ -1,13 +1,13 @@
 'use client';
 
 import { useMemo } from 'react';
-import { signCaseDecision } from '@/app/(app)/cases/[caseId]/decision/actions';
+import { correctCaseDecision, signCaseDecision } from '@/app/(app)/cases/[caseId]/decision/actions';
 import { useServerForm } from '@/components/forms/use-server-form';
 import { Outcome, FormPanel } from '@/components/cases/forms/form-bits';
 import { Button } from '@/components/ui/button';
 import { Field, FormMessage, Select, TextArea, TextInput } from '@/components/ui/field';
 import { decisionOutcomeChoices, isBindingOutcome } from '@/lib/decision/labels';
-import { signDecisionSchema } from '@/lib/decision/schemas';
+import { correctDecisionSchema, signDecisionSchema } from '@/lib/decision/schemas';
 import type { DecisionFormData } from '@/lib/dal/decision-view';
 
 const proposalWords: Record<string, string> = {
@@ -24,13 +24,19 @@ const proposalWords: Record<string, string> = {
  * signature itself — printed name, time and meaning, confirmed by the password.
  */
 export function DecisionForm({ caseId, data }: { caseId: string; data: DecisionFormData }) {
-  const schema = useMemo(() => signDecisionSchema(data.proposalOutcome), [data.proposalOutcome]);
-  const prefilled = isBindingOutcome(data.proposalOutcome) || data.proposalOutcome === 'further_test' ? data.proposalOutcome : undefined;
+  const correcting = data.correcting;
+  // One form for both: a correction is the same signature with two more fields.
+  const schema = useMemo(
+    () => (correcting ? correctDecisionSchema(data.proposalOutcome) : signDecisionSchema(data.proposalOutcome)) as ReturnType<typeof correctDecisionSchema>,
+    [correcting, data.proposalOutcome],
+  );
+  const start = correcting?.outcome ?? data.proposalOutcome;
+  const prefilled = isBindingOutcome(start) || start === 'further_test' ? start : undefined;
   const { form, state, onSubmit } = useServerForm(
     schema,
-    { outcome: prefilled as never, reasons: '', departureReason: '', confirm: false, password: '' },
+    { outcome: prefilled as never, reasons: '', departureReason: '', confirm: false, password: '', supersedesId: correcting?.decisionId ?? '', correctionReason: '' },
     async (values) => {
-      const result = await signCaseDecision(caseId, values);
+      const result = correcting ? await correctCaseDecision(caseId, values) : await signCaseDecision(caseId, values);
       // A password is typed again for every attempt; it never waits in the form.
       if (result && !result.ok) form.setValue('password', '');
       return result;
@@ -44,19 +50,31 @@ export function DecisionForm({ caseId, data }: { caseId: string; data: DecisionF
 
   return (
     <FormPanel
-      title="Sign the binding decision"
+      title={correcting ? 'Correct the binding decision' : 'Sign the binding decision'}
       intro={
+        correcting ? (
+          <>
+            A correction is a new binding decision: it is signed and sealed like the first, names the decision it supersedes, and both stay in the record and on the letters. The parties are sent the new letter.
+            Use it for an error in the decision itself, not to reopen the dispute. Local regulations and the supply contract prevail.
+          </>
+        ) : (
         <>
           The decision module proposes to <strong>{proposalWords[data.proposalOutcome] ?? data.proposalOutcome}</strong>. The proposal supports you; you decide. Local regulations and the supply contract prevail.
           Once signed, the case is sealed and read-only for everyone; a correction is a new decision that supersedes this one, and both are kept.
         </>
+        )
       }
     >
       {data.blockedBecause ? (
         <FormMessage tone="error">{data.blockedBecause}</FormMessage>
       ) : (
-        <form onSubmit={onSubmit} noValidate className="grid gap-4" data-testid="decision-form">
+        <form onSubmit={onSubmit} noValidate className="grid gap-4" data-testid={correcting ? 'correction-form' : 'decision-form'}>
           <Outcome state={state} />
+          {correcting ? (
+            <Field id="decision-correction" label="What is corrected, and why" hint="Printed on the new letter beside the decision it supersedes." error={e.correctionReason?.message ?? e.supersedesId?.message}>
+              <TextArea id="decision-correction" rows={3} invalid={!!e.correctionReason} {...register('correctionReason')} />
+            </Field>
+          ) : null}
           <Field id="decision-outcome" label="Outcome" error={e.outcome?.message}>
             <Select id="decision-outcome" invalid={!!e.outcome} {...register('outcome')}>
               {prefilled ? null : <option value="">Choose…</option>}
@@ -119,7 +137,7 @@ export function DecisionForm({ caseId, data }: { caseId: string; data: DecisionF
             </dl>
             <label className="flex items-start gap-2 text-sm">
               <input type="checkbox" className="mt-1" aria-invalid={!!e.confirm || undefined} {...register('confirm')} />
-              <span>I sign this as the board’s binding decision on this case.</span>
+              <span>{correcting ? 'I sign this as the board’s binding decision on this case, superseding the decision in force.' : 'I sign this as the board’s binding decision on this case.'}</span>
             </label>
             {e.confirm?.message ? (
               <p role="alert" className="text-sm font-bold text-rust">
@@ -134,7 +152,7 @@ export function DecisionForm({ caseId, data }: { caseId: string; data: DecisionF
 
           <div>
             <Button type="submit" disabled={formState.isSubmitting || outcome === 'further_test'}>
-              {formState.isSubmitting ? 'Signing and sealing…' : 'Sign decision'}
+              {formState.isSubmitting ? 'Signing and sealing…' : correcting ? 'Sign correction' : 'Sign decision'}
             </Button>
           </div>
         </form>

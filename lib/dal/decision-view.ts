@@ -22,6 +22,8 @@ export type DecisionFormData = {
   meaning: string;
   /** Why this arbiter may not sign here, when that is so. */
   blockedBecause: string | null;
+  /** On a decided case: the current decision, which a signed correction supersedes. */
+  correcting: { decisionId: string; outcome: string } | null;
 };
 
 export type SealedDecisionView = {
@@ -77,7 +79,10 @@ export async function decisionPanel(db: DbOrTx, actor: Actor, caseId: string): P
     .reverse();
 
   let form: DecisionFormData | null = null;
-  if (row.status === 'review' && can(actor.role, 'case', 'decide')) {
+  // Newest first: the first one nothing supersedes is the decision in force.
+  const current = decisions.find((d) => d.supersededById === null) ?? null;
+  const correcting = row.status === 'decided' && current ? { decisionId: current.id, outcome: current.outcome } : null;
+  if ((row.status === 'review' || correcting) && can(actor.role, 'case', 'decide')) {
     const basis = await decisionBasis(db, row);
     const settlements = {} as Record<BindingOutcome, SettlementPreview>;
     for (const outcome of bindingOutcomes) {
@@ -92,6 +97,7 @@ export async function decisionPanel(db: DbOrTx, actor: Actor, caseId: string): P
       boardName: actor.organisationName,
       meaning: SIGNATURE_MEANING,
       blockedBecause: await conflictOfInterest(db, actor, row),
+      correcting,
     };
   }
   return { form, decisions };

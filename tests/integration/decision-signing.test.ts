@@ -335,10 +335,14 @@ describe('a sealed case is read-only everywhere', () => {
     expect(await state(sealedId)).toEqual(before);
   });
 
-  it('offers no form to anyone, and the guard for other writers refuses it', async () => {
+  it('offers the parties no form and the board only a correction of the decision in force, and the guard for other writers refuses it', async () => {
     for (const key of ['supplier', 'plant', 'lab', 'arbiter', 'arbiter2'] as const) {
       expect((await caseWorkbench(getDb(), world.actors[key], sealedId)).allowed).toEqual([]);
-      expect((await decisionPanel(getDb(), world.actors[key], sealedId)).form).toBeNull();
+    }
+    for (const key of ['supplier', 'plant', 'lab'] as const) expect((await decisionPanel(getDb(), world.actors[key], sealedId)).form).toBeNull();
+    const [inForce] = await getDb().select({ id: decision.id, outcome: decision.outcome }).from(decision).where(eq(decision.caseId, sealedId));
+    for (const key of ['arbiter', 'arbiter2'] as const) {
+      expect((await decisionPanel(getDb(), world.actors[key], sealedId)).form?.correcting).toEqual({ decisionId: inForce.id, outcome: inForce.outcome });
     }
     await L.expectAppError(assertCaseNotSealed(getDb(), sealedId), 'conflict');
     const open = await caseInReview();

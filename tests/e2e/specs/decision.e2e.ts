@@ -108,4 +108,26 @@ describe('the binding decision, end to end', () => {
     await page.getByText('This hash belongs to a sealed decision.').waitFor();
     await screenshot(page, 'decision-5-verify-hash');
   });
+
+  it('arbiter@ corrects the sealed decision: a new decision supersedes it and both stay listed', async () => {
+    const page = await asParty('arbiter', `/cases/${caseOfSupplier.id}`);
+    const details = page.getByTestId('correct-decision');
+    await details.locator('summary').click();
+    await waitForHydration(page, '[data-testid="correction-form"]');
+    const form = page.getByTestId('correction-form');
+    await form.getByRole('button', { name: 'Sign correction' }).click();
+    expect(await form.getByText('Say in at least 20 characters what is corrected and why.').count()).toBe(1);
+    await form.getByLabel('What is corrected, and why').fill('The reasons named the wrong laboratory; the outcome itself is unchanged.');
+    await form.getByLabel('Reasons').fill(REASONS);
+    await form.getByLabel('I sign this as the board’s binding decision on this case, superseding the decision in force.').check();
+    await form.getByLabel('Your password').fill(fixtures().password);
+    await form.getByRole('button', { name: 'Sign correction' }).click();
+    await page.waitForURL((url) => url.searchParams.get('corrected') === '1', { timeout: 60_000 });
+    await page.getByRole('status').filter({ hasText: 'The correction is signed and sealed' }).waitFor();
+    const decision = await page.locator('#decision').innerText();
+    expect(decision).toContain('Superseded');
+    expect(decision).toContain('corrects an earlier decision');
+    expect(await page.getByTestId('record-sha256').count()).toBe(2);
+    await screenshot(page, 'decision-6-corrected');
+  });
 });

@@ -42,7 +42,7 @@ async function loadCase(caseId: string) {
 
 export default async function CaseFilePage({ params, searchParams }: { params: Promise<{ caseId: string }>; searchParams: Promise<Record<string, string | undefined>> }) {
   const { caseId } = await params;
-  const { opened, done, signed } = await searchParams;
+  const { opened, done, signed, corrected } = await searchParams;
   const { file, bench, panel, actor } = await loadCase(caseId);
   const rules = bench.rules;
   const live = file.status !== 'decided' && file.status !== 'withdrawn';
@@ -82,13 +82,28 @@ export default async function CaseFilePage({ params, searchParams }: { params: P
         ) : null}
         {bench.proposal && (bench.hasRetest || bench.showProposal) ? <ReviewPanel assessment={bench.proposal.assessment} input={bench.proposal.input} showProposal={bench.showProposal} /> : null}
         {bench.allowed.includes('order_further_test') ? <FurtherTestForm caseId={file.id} laboratories={bench.laboratories} suggestedCode={`F-${file.number}-${file.samples.length + 1}`} /> : null}
-        {panel.form ? <DecisionForm caseId={file.id} data={panel.form} /> : null}
+        {corrected && panel.decisions.length > 1 ? <FormMessage tone="success">The correction is signed and sealed; it supersedes the earlier decision, which stays in the record. The parties have been sent the new letter.</FormMessage> : null}
+        {panel.form && !panel.form.correcting ? <DecisionForm caseId={file.id} data={panel.form} /> : null}
         <ContestedResult file={file} />
         <Readings file={file} />
         <SamplesAndCustody file={file} />
         <Evidence file={file} />
-        <Notes file={file} />
-        <DecisionSection file={file} sealed={panel.decisions.length ? <SealedDecisions decisions={panel.decisions} /> : undefined} />
+        <Notes file={file} actor={actor} />
+        <DecisionSection file={file} sealed={
+            panel.decisions.length ? (
+              <>
+                <SealedDecisions decisions={panel.decisions} />
+                {panel.form?.correcting ? (
+                  <details className="mt-4" data-testid="correct-decision">
+                    <summary className="cursor-pointer font-bold">Correct this decision</summary>
+                    <div className="mt-3">
+                      <DecisionForm caseId={file.id} data={panel.form} />
+                    </div>
+                  </details>
+                ) : null}
+              </>
+            ) : undefined
+          } />
         <Ledger file={file} />
         {bench.allowed.includes('withdraw') ? <WithdrawForm caseId={file.id} status={file.status} /> : null}
       </div>
