@@ -14,6 +14,7 @@ import { Field, FormMessage, Select, TextInput } from '@/components/ui/field';
 import { Badge } from '@/components/ui/status';
 import { InstrumentStatusBadge } from '@/components/instruments/instrument-status';
 import { ReadingsEntry } from '@/components/readings/readings-entry';
+import { matchInstrument, type ImportMeta } from '@/lib/readings-import';
 import { describeReadings, typedReadings } from '@/components/readings/live';
 import { localInputValue } from './local-time';
 import { VerdictPreview } from './verdict-preview';
@@ -75,6 +76,15 @@ export function IntakeForm({ farms, instruments, rules, rulesVersion, analystNam
   const tempCheck = temp === null ? null : sampleTemperatureCheck(temp);
   const refText = typeof reference === 'string' && reference.trim() ? reference.trim() : '<reference>';
   const err = (name: string) => (e as Record<string, { message?: string } | undefined>)[name]?.message;
+
+  // What the readings file says of the test fills the fields still empty or at their defaults; the analyst reviews them.
+  const fillFromImport = (meta: ImportMeta) => {
+    const instrument = matchInstrument(meta.instrument, instruments.map((i) => ({ id: i.id, label: `${i.serialNumber} · ${i.description}` })));
+    if (instrument) form.setValue('instrumentId', instrument, { shouldDirty: true });
+    if (meta.analyst) form.setValue('analystName', meta.analyst, { shouldDirty: true });
+    if (meta.firstMeasuredAt) form.setValue('testedAt', localInputValue(meta.firstMeasuredAt) as never, { shouldDirty: true });
+    if (meta.sampleCode && !String(form.getValues('routineCode') ?? '').trim()) form.setValue('routineCode', meta.sampleCode, { shouldDirty: true });
+  };
 
   const text = (name: keyof typeof e & string, label: string, props: { hint?: React.ReactNode; placeholder?: string; type?: string; inputMode?: 'decimal' | 'numeric' } = {}) => (
     <Field id={name} label={label} hint={props.hint} error={err(name)}>
@@ -178,7 +188,11 @@ export function IntakeForm({ farms, instruments, rules, rulesVersion, analystNam
         </div>
       </Section>
 
-      <ReadingsEntry form={form} precision={rules.precision} />
+      <ReadingsEntry
+        form={form}
+        precision={rules.precision}
+        csvImport={{ target: { calibrationReadings: null, hortvetConversion: rules.display.hortvetConversion }, onUse: (_values, meta) => fillFromImport(meta) }}
+      />
 
       <section aria-labelledby="verdict-preview-title" className="rounded-card border border-line bg-paper-deep/60 p-4">
         <h2 id="verdict-preview-title" className="mb-2 font-bold">

@@ -8,6 +8,11 @@ import { errorAt } from '@/components/forms/use-server-form';
 import { Button } from '@/components/ui/button';
 import { Field, FormMessage, Select, TextInput } from '@/components/ui/field';
 import { describeReadings, typedReadings } from './live';
+import { CsvImport } from './csv-import';
+import type { ImportedValues, ImportMeta, ImportTarget } from '@/lib/readings-import';
+
+/** Offers the CSV import above the readings; `onUse` fills the form's other fields from the file. */
+export type ReadingsCsvImport = { target: ImportTarget; onUse?: (values: ImportedValues, meta: ImportMeta) => void };
 
 type ReadingsShape = { readings: { value: unknown; flag: ReadingFlag }[] };
 
@@ -18,7 +23,7 @@ const MAX_READINGS = 10;
  * saying live whether they give a result or how many more are needed. Any form whose values hold
  * `readings: { value, flag }[]` can use it.
  */
-export function ReadingsEntry<T extends FieldValues>({ form, precision, legend = 'Readings of the sample' }: { form: UseFormReturn<T, any, any>; precision: Precision; legend?: string }) {
+export function ReadingsEntry<T extends FieldValues>({ form, precision, legend = 'Readings of the sample', csvImport }: { form: UseFormReturn<T, any, any>; precision: Precision; legend?: string; csvImport?: ReadingsCsvImport }) {
   const { control, register, formState } = form as unknown as UseFormReturn<ReadingsShape>;
   const readings = useFieldArray({ control, name: 'readings' });
   const watched = useWatch({ control, name: 'readings' }) ?? [];
@@ -32,6 +37,15 @@ export function ReadingsEntry<T extends FieldValues>({ form, precision, legend =
   return (
     <fieldset className="rounded-card border border-line bg-white p-4">
       <legend className="px-1 font-bold">{legend}</legend>
+      {csvImport ? (
+        <CsvImport
+          target={csvImport.target}
+          onUse={(values, meta) => {
+            readings.replace(values.readings);
+            csvImport.onUse?.(values, meta);
+          }}
+        />
+      ) : null}
       <ol className="grid gap-3">
         {readings.fields.map((field, i) => (
           <li key={field.id} className="grid grid-cols-[2rem_1fr_1fr_5.5rem] items-end gap-3">

@@ -8,10 +8,17 @@ import { errorAt, useServerForm } from '@/components/forms/use-server-form';
 import { Button } from '@/components/ui/button';
 import { Field, FormMessage, Select, TextInput } from '@/components/ui/field';
 import { FormPanel, Outcome } from './form-bits';
+import type { HortvetConversion } from '@/lib/arbitration';
+import type { ReadingFlag } from '@/db/schema/measurements';
+import { matchInstrument, type ImportedValues, type ImportMeta } from '@/lib/readings-import';
+import { CsvImport } from '@/components/readings/csv-import';
+import { localInputValue } from '@/components/intake/local-time';
 
 export type BenchRules = {
   precision: { r: number; R: number };
   calibration: { nominal: number; readings: number; tolerance: number; required: number };
+  /** The scheme's °H conversion, for readings files in °H; without it they are refused. */
+  hortvetConversion?: HortvetConversion;
 };
 
 const flagGuidance: Record<string, string> = {
@@ -38,7 +45,7 @@ function localNow(): string {
 }
 
 /** The referee laboratory's retest entry, with the decision module telling live what the readings allow. */
-export function BenchForm({ caseId, instruments, rules, analystName }: { caseId: string; instruments: { id: string; label: string }[]; rules: BenchRules; analystName: string }) {
+export function BenchForm({ caseId, instruments, rules, analystName, sampleCode = null }: { caseId: string; instruments: { id: string; label: string }[]; rules: BenchRules; analystName: string; sampleCode?: string | null }) {
   const { form, state, onSubmit } = useServerForm(
     submitRetestSchema,
     {
@@ -68,6 +75,17 @@ export function BenchForm({ caseId, instruments, rules, analystName }: { caseId:
   const cal = calValues.length === rules.calibration.readings ? calibrationCheck({ nominal: rules.calibration.nominal, readings: calValues, tolerance: rules.calibration.tolerance, required: rules.calibration.required }) : null;
   const needed = live && live.status === 'needs_more_readings' ? live.needed : 0;
   const spare = values.length - (live?.status === 'accepted' ? live.used : values.length);
+
+  // A readings file fills the retest's readings, its calibration check when the file has one, and what it says of the test.
+  const useImport = (imported: ImportedValues, meta: ImportMeta) => {
+    // The inputs hold text, as if typed; the schema coerces it on submit.
+    readings.replace(imported.readings as unknown as { value: number; flag: ReadingFlag }[]);
+    if (imported.calibrationReadings.length) form.setValue('calibrationReadings', imported.calibrationReadings as unknown as number[], { shouldDirty: true });
+    const instrument = matchInstrument(meta.instrument, instruments);
+    if (instrument) form.setValue('instrumentId', instrument, { shouldDirty: true });
+    if (meta.analyst) form.setValue('analystName', meta.analyst, { shouldDirty: true });
+    if (meta.firstMeasuredAt) form.setValue('testedAt', localInputValue(meta.firstMeasuredAt) as unknown as Date, { shouldDirty: true });
+  };
 
   return (
     <FormPanel title="Bench: submit retest" intro={<p>The retest is blind: the intake result stays hidden until you submit. Enter the readings in the order you took them.</p>}>
@@ -100,6 +118,8 @@ export function BenchForm({ caseId, instruments, rules, analystName }: { caseId:
             </Select>
           </Field>
         </div>
+
+        <CsvImport target={{ calibrationReadings: rules.calibration.readings, hortvetConversion: rules.hortvetConversion ?? null, expectedSampleCode: sampleCode }} onUse={useImport} />
 
         <fieldset className="rounded-card border border-line bg-white p-4">
           <legend className="px-1 font-bold">Calibration check on the {rules.calibration.nominal.toFixed(3).replace('-', '−')} °C standard</legend>
