@@ -33,6 +33,8 @@ export const attachment = pgTable(
     createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
     removedAt: timestamp('removed_at', { withTimezone: true }),
     removedBy: text('removed_by').references(() => user.id),
+    // Why a party withdrew its file; the board reads it beside the struck-through entry.
+    removalReason: text('removal_reason'),
   },
   (t) => [
     index('attachment_case_idx').on(t.caseId, t.createdAt),
@@ -42,6 +44,11 @@ export const attachment = pgTable(
     ),
     check('attachment_sha256_format', sql`${t.sha256} ~ '^[0-9a-f]{64}$'`),
     check('attachment_size_positive', sql`${t.sizeBytes} > 0`),
+    // A removal is all of who, when and why, or nothing.
+    check(
+      'attachment_removal_complete',
+      sql`(${t.removedAt} is null and ${t.removedBy} is null and ${t.removalReason} is null) or (${t.removedAt} is not null and ${t.removedBy} is not null and ${t.removalReason} is not null)`,
+    ),
   ],
 );
 

@@ -1,0 +1,2 @@
+ALTER TABLE "attachment" ADD COLUMN "removal_reason" text;--> statement-breakpoint
+ALTER TABLE "attachment" ADD CONSTRAINT "attachment_removal_complete" CHECK (("attachment"."removed_at" is null and "attachment"."removed_by" is null and "attachment"."removal_reason" is null) or ("attachment"."removed_at" is not null and "attachment"."removed_by" is not null and "attachment"."removal_reason" is not null));
