@@ -56,7 +56,8 @@ beforeAll(async () => {
   otherLabId = (await createOrganisation(db, { name: 'Second Referee Laboratory (test)', kind: 'lab' })).id;
   otherBoardId = (await createOrganisation(db, { name: 'Second Quality Board (test)', kind: 'board' })).id;
   const seeded = await allCases();
-  movedToOtherLab = seeded.find((c) => c.status === 'decided')!;
+  // A case the demo laboratory never received a sample of: a laboratory that did keeps reading it.
+  movedToOtherLab = seeded.find((c) => c.status === 'open')!;
   movedToOtherBoard = seeded.find((c) => c.status === 'withdrawn')!;
   await db.update(disputeCase).set({ labOrganisationId: otherLabId }).where(eq(disputeCase.id, movedToOtherLab.id));
   await db.update(disputeCase).set({ boardOrganisationId: otherBoardId }).where(eq(disputeCase.id, movedToOtherBoard.id));
