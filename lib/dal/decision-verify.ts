@@ -4,7 +4,7 @@ import type { DbOrTx } from '@/db/client';
 import { auditEvent, decision, disputeCase } from '@/db/schema';
 import { recordSha256 } from '@/lib/decision/record';
 import { verifyRecordSignature } from '@/lib/decision/signature';
-import { signingKey } from '@/lib/decision/signing-key';
+import { signingKey, verificationKey } from '@/lib/decision/signing-key';
 import { rebuildSealedRecord } from './decision-record';
 
 export type DecisionVerification = {
@@ -44,9 +44,11 @@ export async function verifySealedDecision(db: DbOrTx, decisionId: string): Prom
   if (!row.recordSha256) problems.push('the decision was never sealed');
   else if (!hashMatches) problems.push('the record in the database no longer has the sealed hash: something was changed after sealing');
   const keyIsCurrent = row.signingKeyId === key.keyId;
-  if (row.signingKeyId && !keyIsCurrent) problems.push(`it was signed with key ${row.signingKeyId}, not the server's current key ${key.keyId}`);
-  const signatureValid = !!row.recordSha256 && !!row.recordSignature && keyIsCurrent && verifyRecordSignature(key.publicKey, row.recordSha256, row.recordSignature);
-  if (row.recordSha256 && keyIsCurrent && !signatureValid) problems.push('the signature does not verify with the public key');
+  // A decision sealed before a key rotation verifies with the retired key it names.
+  const verifier = row.signingKeyId ? verificationKey(key, row.signingKeyId) : null;
+  if (row.signingKeyId && !verifier) problems.push(`it was signed with key ${row.signingKeyId}, which is neither the server's current key ${key.keyId} nor one of its retired keys`);
+  const signatureValid = !!row.recordSha256 && !!row.recordSignature && !!verifier && verifyRecordSignature(verifier.publicKey, row.recordSha256, row.recordSignature);
+  if (row.recordSha256 && verifier && !signatureValid) problems.push('the signature does not verify with the public key');
   return {
     decisionId: row.id,
     caseId: row.caseId,

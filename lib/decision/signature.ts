@@ -57,3 +57,26 @@ export function parsePrivateKey(text: string): KeyObject {
 export function publicKeyOf(privateKey: KeyObject): KeyObject {
   return createPublicKey(privateKey);
 }
+
+/**
+ * Public keys from a setting: SPKI PEM blocks, or the base64 of their DER separated by commas or
+ * white space. Only Ed25519 is accepted.
+ */
+export function parsePublicKeys(text: string): KeyObject[] {
+  const normalised = text.replaceAll('\\n', '\n');
+  const pemBlocks = normalised.match(/-----BEGIN PUBLIC KEY-----[\s\S]+?-----END PUBLIC KEY-----/g) ?? [];
+  const rest = normalised.replace(/-----BEGIN PUBLIC KEY-----[\s\S]+?-----END PUBLIC KEY-----/g, ' ');
+  const derTexts = rest.split(/[\s,]+/).filter(Boolean);
+  const keys: KeyObject[] = [];
+  for (const item of [...pemBlocks, ...derTexts]) {
+    let key: KeyObject;
+    try {
+      key = item.startsWith('-----BEGIN') ? createPublicKey({ key: item, format: 'pem' }) : createPublicKey({ key: Buffer.from(item, 'base64'), format: 'der', type: 'spki' });
+    } catch {
+      throw new SigningKeyError('holds something that is not a public key: give Ed25519 public keys as SPKI PEM or as the base64 of their DER');
+    }
+    if (key.asymmetricKeyType !== 'ed25519') throw new SigningKeyError(`holds a ${key.asymmetricKeyType ?? 'unknown'} key; decision seals use Ed25519`);
+    keys.push(key);
+  }
+  return keys;
+}

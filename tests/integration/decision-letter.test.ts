@@ -246,6 +246,32 @@ describe('a field changed after sealing', () => {
     expect(problem.detail).toMatch(/no longer matches its seal/);
   });
 
+  it('after a key rotation, a decision sealed under the old key verifies while that key is listed as retired, and fails once it is not', async () => {
+    const { row } = await sealedCase();
+    const { generateKeyPairSync } = await import('node:crypto');
+    const { loadSigningKey, signingKey } = await import('@/lib/decision/signing-key');
+    const { publicSigningKey } = await import('@/lib/decision/public-key');
+    const old = signingKey();
+    const nextPem = generateKeyPairSync('ed25519').privateKey.export({ type: 'pkcs8', format: 'pem' }).toString();
+    // What a restart with the new settings does: the process loads its key once.
+    const restartWith = (retired?: string) => {
+      (globalThis as { __countersampleSigningKey?: unknown }).__countersampleSigningKey = loadSigningKey({ APP_ENV: 'production', DECISION_SIGNING_KEY: nextPem, DECISION_RETIRED_PUBLIC_KEYS: retired });
+    };
+    try {
+      restartWith(old.publicKeyPem);
+      expect(signingKey().keyId).not.toBe(old.keyId);
+      expect(await verifySealedDecision(getDb(), row.id)).toMatchObject({ ok: true, signatureValid: true, keyIsCurrent: false, signingKeyId: old.keyId });
+      expect(publicSigningKey().retiredKeys.map((k) => k.keyId)).toEqual([old.keyId]);
+
+      restartWith(undefined);
+      const check = await verifySealedDecision(getDb(), row.id);
+      expect(check).toMatchObject({ ok: false, hashMatches: true, signatureValid: false });
+      expect(check!.problems.join(' ')).toMatch(/neither the server's current key .* nor one of its retired keys/);
+    } finally {
+      (globalThis as { __countersampleSigningKey?: unknown }).__countersampleSigningKey = old;
+    }
+  });
+
   it('a forged signature fails even when the record is unchanged', async () => {
     const { row } = await sealedCase();
     const other = await sealedCase();

@@ -6,7 +6,7 @@ import { afterAll, describe, expect, it } from 'vitest';
 import { canonicalJson, sha256Hex } from '@/lib/canonical-json';
 import { noteBodySha256, recordSha256, sealedRecord, type CaseEvidence, type RecordDecision } from '@/lib/decision/record';
 import { keyIdOf, parsePrivateKey, publicKeyOf, signRecordHash, signedMessage, SigningKeyError, verifyRecordSignature } from '@/lib/decision/signature';
-import { loadSigningKey, readOrCreateKeyFile } from '@/lib/decision/signing-key';
+import { loadSigningKey, readOrCreateKeyFile, verificationKey } from '@/lib/decision/signing-key';
 import { embeddedRecordHash } from '@/lib/decision/letter/marker';
 import { recordHashSchema, signDecisionSchema } from '@/lib/decision/schemas';
 
@@ -119,6 +119,22 @@ describe('the signing key setting', () => {
     expect(() => loadSigningKey({ APP_ENV: 'development', DECISION_SIGNING_KEY: 'bm90IGEga2V5' })).toThrow(/^DECISION_SIGNING_KEY is not a private key/);
     expect(() => loadSigningKey({ APP_ENV: 'production', DECISION_SIGNING_KEY: undefined })).toThrow(SigningKeyError);
     expect(() => loadSigningKey({ APP_ENV: 'production', DECISION_SIGNING_KEY: undefined })).toThrow(/must be set in production/);
+  });
+
+  it('takes retired public keys as PEM blocks or base64 DER, drops the current key and repeats, and refuses anything else', () => {
+    const older = generateKeyPairSync('ed25519').publicKey;
+    const oldest = generateKeyPairSync('ed25519').publicKey;
+    const olderPem = older.export({ type: 'spki', format: 'pem' }).toString();
+    const oldestDer = oldest.export({ type: 'spki', format: 'der' }).toString('base64');
+    const currentPem = publicKeyOf(privateKey).export({ type: 'spki', format: 'pem' }).toString();
+    const key = loadSigningKey({ APP_ENV: 'production', DECISION_SIGNING_KEY: pem, DECISION_RETIRED_PUBLIC_KEYS: `${olderPem},${oldestDer}, ${olderPem}${currentPem}` });
+    expect(key.retired.map((k) => k.keyId)).toEqual([keyIdOf(older), keyIdOf(oldest)]);
+    expect(verificationKey(key, keyIdOf(oldest))?.keyId).toBe(keyIdOf(oldest));
+    expect(verificationKey(key, key.keyId)?.keyId).toBe(key.keyId);
+    expect(verificationKey(key, '0000000000000000')).toBeNull();
+    const rsa = generateKeyPairSync('rsa', { modulusLength: 2048 }).publicKey.export({ type: 'spki', format: 'pem' }).toString();
+    expect(() => loadSigningKey({ APP_ENV: 'production', DECISION_SIGNING_KEY: pem, DECISION_RETIRED_PUBLIC_KEYS: rsa })).toThrow(/^DECISION_RETIRED_PUBLIC_KEYS holds a rsa key/);
+    expect(() => loadSigningKey({ APP_ENV: 'production', DECISION_SIGNING_KEY: pem, DECISION_RETIRED_PUBLIC_KEYS: 'bm90IGEga2V5' })).toThrow(/^DECISION_RETIRED_PUBLIC_KEYS holds something that is not a public key/);
   });
 
   it('makes a development key on first start, keeps it private, and gives the same key on every later start', () => {
