@@ -4,36 +4,8 @@ import { formatDateTime } from '@/lib/format/dates';
 import { Card, DefinitionList, EmptyState } from '@/components/ui/card';
 import { Badge } from '@/components/ui/status';
 
-type RichNode = { type?: string; text?: string; content?: RichNode[] };
-
-/** Plain text of a stored note body, for read-only display; nothing in it is ever interpreted as markup. */
-function plainText(node: RichNode): string {
-  if (typeof node?.text === 'string') return node.text;
-  const parts = Array.isArray(node?.content) ? node.content.map(plainText) : [];
-  return parts.join(node?.type === 'doc' ? '\n' : '');
-}
-
-export function Notes({ file }: { file: CaseFile }) {
-  return (
-    <Card id="notes" title="Notes">
-      {file.notes.length === 0 ? (
-        <EmptyState title="No notes yet" />
-      ) : (
-        <ul className="grid gap-3">
-          {file.notes.map((n) => (
-            <li key={n.id} className="rounded-card border border-line bg-white p-3">
-              <p className="mb-1 flex flex-wrap items-center gap-2 text-xs text-brine">
-                <span className="font-bold text-ink">{n.authorName}</span> · {n.organisation} · {formatDateTime(n.createdAt)}
-                {n.visibility === 'internal' ? <Badge tone="warning">Internal to {n.organisation}</Badge> : null}
-              </p>
-              <p className="whitespace-pre-line">{plainText(n.body as RichNode)}</p>
-            </li>
-          ))}
-        </ul>
-      )}
-    </Card>
-  );
-}
+// The notes' own section: threads, the rich-text editor and its safe renderer.
+export { NotesSection as Notes } from '@/components/notes/notes-section';
 
 const outcomeLabels: Record<string, string> = { uphold: 'Rejection upheld', reverse: 'Rejection reversed', adjust: 'Result adjusted', further_test: 'Further test ordered' };
 
@@ -62,7 +34,7 @@ export function DecisionSection({ file, sealed }: { file: CaseFile; sealed?: Rea
   );
 }
 
-const actionLabels: Record<string, string> = { 'case.opened': 'Dispute opened', 'case.transitioned': 'Status changed', 'decision.sealed': 'Decision signed and sealed', 'decision.letter_issued': 'Decision letter issued' };
+const actionLabels: Record<string, string> = { 'case.opened': 'Dispute opened', 'note.created': 'Note written', 'note.edited': 'Note edited', 'case.transitioned': 'Status changed', 'decision.sealed': 'Decision signed and sealed', 'decision.letter_issued': 'Decision letter issued', 'evidence.uploaded': 'Evidence added', 'evidence.removed': 'Evidence withdrawn' };
 
 export function Ledger({ file }: { file: CaseFile }) {
   return (
@@ -96,27 +68,5 @@ export function Ledger({ file }: { file: CaseFile }) {
   );
 }
 
-export function Evidence({ file }: { file: CaseFile }) {
-  return (
-    <Card id="evidence" title="Evidence">
-      {file.attachments.length === 0 ? (
-        <EmptyState title="No files attached to this case" />
-      ) : (
-        <ul className="grid gap-2 text-sm">
-          {file.attachments.map((a) => (
-            <li key={a.id} className="rounded-card border border-line bg-white p-3">
-              <p className="font-bold">
-                {a.fileName} <span className="font-normal text-brine">· {a.kind.replaceAll('_', ' ')} · {(a.sizeBytes / 1024).toFixed(0)} KiB</span>
-                {a.removedAt ? <Badge tone="neutral">Removed {formatDateTime(a.removedAt)}</Badge> : null}
-              </p>
-              {a.caption ? <p>{a.caption}</p> : null}
-              <p className="text-xs text-brine">
-                {a.uploaderName} · {formatDateTime(a.createdAt)} · SHA-256 <span className="break-all font-mono">{a.sha256}</span>
-              </p>
-            </li>
-          ))}
-        </ul>
-      )}
-    </Card>
-  );
-}
+// The evidence section: gallery, uploader and withdrawal (components/evidence).
+export { EvidenceSection as Evidence } from '@/components/evidence/evidence-section';

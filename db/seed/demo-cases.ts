@@ -10,6 +10,7 @@ import { SIGNATURE_MEANING } from '@/lib/decision/labels';
 import type { SchemeRules } from '@/lib/rules/schema';
 import { toTenthMilliC } from '@/lib/temperature';
 import type { SeededDelivery } from './demo-deliveries';
+import { validateNoteBody } from '@/lib/notes/validate';
 
 const HOUR = 3_600_000;
 // What a seeded decision records as its re-authentication: there was none.
@@ -41,8 +42,11 @@ export type DemoCasePlan = {
   notes?: { author: 'supplier' | 'plant' | 'lab' | 'arbiter'; text: string; visibility: 'parties' | 'internal' }[];
 };
 
+/** A demo note as the editor would store it; checked by the same rules as a note posted in the app. */
 function doc(text: string) {
-  return { type: 'doc', content: [{ type: 'paragraph', content: [{ type: 'text', text }] }] };
+  const checked = validateNoteBody({ type: 'doc', content: [{ type: 'paragraph', content: [{ type: 'text', text }] }] });
+  if (!checked.ok) throw new Error(`A demo note breaks the notes' rules: ${checked.message}`);
+  return checked.doc;
 }
 
 const stageOrder: CaseStatus[] = ['open', 'awaiting_sample', 'retest', 'review', 'decided'];

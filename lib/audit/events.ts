@@ -22,6 +22,12 @@ export const auditEventSchema = z.discriminatedUnion('action', [
   z.object({ ...base, action: z.literal('intake.corrected'), objectType: z.literal('intake_result'), change: z.object({ deliveryId: z.string(), supersedes: z.string(), reason: z.string(), from: z.object({ verdict: z.string(), valueTenthMilliC: z.number(), amountMinor: z.number() }), to: z.object({ verdict: z.string(), valueTenthMilliC: z.number(), amountMinor: z.number() }), rulesVersion: z.number(), notifiedAt: z.string().nullable() }) }),
   z.object({ ...base, action: z.literal('decision.sealed'), objectType: z.literal('decision'), change: z.object({ outcome: z.string(), followedProposal: z.boolean(), recordSha256: z.string(), signingKeyId: z.string(), signatureMeaning: z.string(), reauthenticationMethod: z.string(), supersedesId: z.string().nullable(), correctionReason: z.string().nullable() }) }),
   z.object({ ...base, action: z.literal('decision.letter_issued'), objectType: z.literal('decision'), change: z.object({ letterSha256: z.string(), bytes: z.number(), recordSha256: z.string() }) }),
+  // File names, captions and reasons may quote values: they sit under `detail`, which the blind laboratory's ledger withholds.
+  z.object({ ...base, action: z.literal('evidence.uploaded'), objectType: z.literal('attachment'), change: z.object({ kind: z.string(), detail: z.object({ fileName: z.string(), caption: z.string().nullable(), contentType: z.string(), sizeBytes: z.number(), sha256: z.string(), storageKey: z.string(), thumbnailKey: z.string().nullable() }) }) }),
+  z.object({ ...base, action: z.literal('evidence.removed'), objectType: z.literal('attachment'), change: z.object({ kind: z.string(), detail: z.object({ fileName: z.string(), sha256: z.string(), reason: z.string() }) }) }),
+  // A note's words stay out of the trail, which every party reads: its hash proves which body it was.
+  z.object({ ...base, action: z.literal('note.created'), objectType: z.literal('note'), change: z.object({ visibility: z.enum(['parties', 'internal']), parentId: z.string().nullable(), bodySha256: z.string(), mentions: z.number() }) }),
+  z.object({ ...base, action: z.literal('note.edited'), objectType: z.literal('note'), change: z.object({ visibility: z.enum(['parties', 'internal']), revisionId: z.string(), previousSha256: z.string(), bodySha256: z.string() }) }),
   z.object({ ...base, action: z.literal('demo.seeded'), objectType: z.literal('system'), change: z.object({ organisations: z.number(), deliveries: z.number(), cases: z.number() }) }),
 ]);
 

@@ -2,7 +2,6 @@ import 'server-only';
 import { and, asc, desc, eq, inArray, or } from 'drizzle-orm';
 import type { DbOrTx } from '@/db/client';
 import {
-  attachment,
   auditEvent,
   custodyEvent,
   decision,
@@ -10,7 +9,6 @@ import {
   instrument,
   intakeResult,
   measurementSet,
-  note,
   organisation,
   reading,
   sample,
@@ -21,11 +19,18 @@ import {
 import type { Actor } from '@/lib/auth/actor';
 import { findVisibleCase } from './cases';
 import { isBlindFor } from './case-scope';
+import { notesOfCase } from './notes';
+import { attachmentsOfCase } from './attachments';
 
 function redactedChange(change: unknown): unknown {
   if (!change || typeof change !== 'object') return change;
   const { detail: _withheld, ...rest } = change as Record<string, unknown>;
   return rest;
+}
+
+function isOthersInternalNoteEvent(e: { action: string; change: unknown; actorOrganisationId: string | null }, actor: Actor): boolean {
+  if (!e.action.startsWith('note.') || e.actorOrganisationId === actor.organisationId) return false;
+  return (e.change as { visibility?: unknown } | null)?.visibility !== 'parties';
 }
 
 /** Everything one actor may see of one case, as plain data for the Case file page and the API. */
@@ -89,27 +94,8 @@ export async function getCaseFile(db: DbOrTx, actor: Actor, caseId: string) {
       .innerJoin(instrument, eq(instrument.id, measurementSet.instrumentId))
       .where(setScope)
       .orderBy(asc(measurementSet.testedAt)),
-    db
-      .select({
-        id: note.id,
-        parentId: note.parentId,
-        visibility: note.visibility,
-        body: note.body,
-        createdAt: note.createdAt,
-        editedAt: note.editedAt,
-        authorName: user.name,
-        organisationId: note.organisationId,
-      })
-      .from(note)
-      .innerJoin(user, eq(user.id, note.authorUserId))
-      .where(
-        and(
-          eq(note.caseId, found.id),
-          // Other parties' notes may argue about values, so a blind laboratory reads only its own.
-          blind ? eq(note.organisationId, actor.organisationId) : or(eq(note.visibility, 'parties'), eq(note.organisationId, actor.organisationId)),
-        ),
-      )
-      .orderBy(asc(note.createdAt)),
+    // One rule for every reader of notes (lib/dal/notes.ts): shared ones and the own organisation's; blind, only the own.
+    notesOfCase(db, actor, found),
     db.select().from(decision).where(eq(decision.caseId, found.id)).orderBy(desc(decision.signedAt)),
     db
       .select({ seq: auditEvent.seq, at: auditEvent.at, action: auditEvent.action, change: auditEvent.change, actorName: user.name, actorOrganisationId: auditEvent.actorOrganisationId })
@@ -117,13 +103,8 @@ export async function getCaseFile(db: DbOrTx, actor: Actor, caseId: string) {
       .leftJoin(user, eq(user.id, auditEvent.actorUserId))
       .where(eq(auditEvent.caseId, found.id))
       .orderBy(asc(auditEvent.seq)),
-    db
-      .select({ id: attachment.id, kind: attachment.kind, caption: attachment.caption, fileName: attachment.fileName, contentType: attachment.contentType, sizeBytes: attachment.sizeBytes, sha256: attachment.sha256, createdAt: attachment.createdAt, removedAt: attachment.removedAt, uploaderName: user.name })
-      .from(attachment)
-      .innerJoin(user, eq(user.id, attachment.uploadedBy))
-      // Another party's lab sheet may show the intake readings: withheld while blind.
-      .where(and(eq(attachment.caseId, found.id), blind ? eq(attachment.organisationId, actor.organisationId) : undefined))
-      .orderBy(asc(attachment.createdAt)),
+    // One rule for the page, the API and the download route (lib/dal/attachments.ts); blind, only the own organisation's.
+    attachmentsOfCase(db, actor, found),
   ]);
 
   const sampleIds = samples.map((s) => s.id);
@@ -201,7 +182,7 @@ export async function getCaseFile(db: DbOrTx, actor: Actor, caseId: string) {
       laboratory: orgName(set.organisationId),
       readings: readings.filter((r) => r.measurementSetId === set.id).map((r) => ({ position: r.position, valueTenthMilliC: r.valueTenthMilliC, flag: r.flag })),
     })),
-    notes: notes.map((n) => ({ ...n, organisation: orgName(n.organisationId) })),
+    notes,
     decisions: decisions.map((d) => ({
       id: d.id,
       outcome: d.outcome,
@@ -216,7 +197,8 @@ export async function getCaseFile(db: DbOrTx, actor: Actor, caseId: string) {
     })),
     attachments: files,
     // Blind, the ledger shows who did what and when, not the details other parties recorded.
-    ledger: ledger.map((e) => ({
+    // Another organisation's internal note is not there for this reader, so neither is its trace.
+    ledger: ledger.filter((e) => !isOthersInternalNoteEvent(e, actor)).map((e) => ({
       ...e,
       change: blind && e.actorOrganisationId !== actor.organisationId ? redactedChange(e.change) : e.change,
       actorOrganisation: orgName(e.actorOrganisationId),

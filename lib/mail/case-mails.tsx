@@ -6,6 +6,7 @@ import type { Audience } from '@/lib/cases/lifecycle';
 import { env } from '@/lib/env';
 import { sendMail } from './send';
 import { CaseNoticeMail } from './templates/case-notice';
+import { NotePostedMail } from './templates/note-posted';
 
 export type CaseParties = {
   id: string;
@@ -48,6 +49,27 @@ export async function notifyCase(db: DbOrTx, parties: CaseParties, audiences: re
       template: n.template,
       caseId: parties.id,
       body: <CaseNoticeMail greeting="Hello," headline={n.headline} lines={n.lines} url={url} actionLabel={n.actionLabel ?? `Open ${parties.number}`} />,
+    });
+  }
+}
+
+/** Tells each audience of a shared note, one message per party, after the note has committed. */
+export async function notifyCaseNote(
+  db: DbOrTx,
+  parties: CaseParties,
+  audiences: readonly Audience[],
+  note: { authorName: string; organisationName: string; isReply: boolean; excerpt: string },
+) {
+  const url = `${env().BETTER_AUTH_URL}/cases/${parties.id}#notes`;
+  for (const audience of audiences) {
+    const to = await recipientsOf(db, parties, audience);
+    if (to.length === 0) continue;
+    await sendMail({
+      to,
+      subject: `${parties.number}: ${note.isReply ? 'a reply' : 'a new note'} from ${note.organisationName}`,
+      template: 'note-posted',
+      caseId: parties.id,
+      body: <NotePostedMail caseNumber={parties.number} {...note} url={url} />,
     });
   }
 }

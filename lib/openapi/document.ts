@@ -213,12 +213,16 @@ const caseFileShape = {
       id: z.uuid(),
       parentId: z.uuid().nullable(),
       visibility: z.enum(noteVisibilities),
-      body: z.unknown().describe('Rich text as editor JSON'),
+      body: z.unknown().describe('Rich text as editor JSON, checked against the notes schema on write; render it as text, never as HTML'),
+      text: z.string().describe('The note as plain text'),
       createdAt: isoDateTime(),
       editedAt: isoDateTime().nullable(),
       authorName: z.string(),
       organisationId: z.uuid(),
-      organisation: z.string().nullable(),
+      organisation: z.string(),
+      mine: z.boolean().describe('Whether the caller wrote it'),
+      editableUntil: isoDateTime().nullable().describe('Until when the caller may still edit it; null if the caller may not'),
+      revisions: z.array(z.object({ body: z.unknown().describe('The body before an edit'), replacedAt: isoDateTime() })).describe('Earlier bodies, oldest first'),
     }),
   ),
   decisions: z.array(
@@ -243,10 +247,17 @@ const caseFileShape = {
       fileName: z.string(),
       contentType: z.string(),
       sizeBytes: z.number().int(),
-      sha256: z.string(),
+      sha256: z.string().describe('SHA-256 of the stored bytes, hex'),
       createdAt: isoDateTime(),
-      removedAt: isoDateTime().nullable(),
+      removedAt: isoDateTime().nullable().describe('When the uploading organisation withdrew it; the file stays in the record'),
+      removalReason: z.string().nullable(),
+      removedByName: z.string().nullable(),
       uploaderName: z.string(),
+      organisationId: z.uuid(),
+      organisation: z.string(),
+      downloadable: z.boolean().describe('Whether the caller may open it: a withdrawn file only the board'),
+      hasThumbnail: z.boolean(),
+      removable: z.boolean().describe('Whether the caller may withdraw it'),
     }),
   ),
   ledger: z.array(
@@ -287,7 +298,8 @@ export type ApiOperation = {
   /** Words for parameters whose schema cannot say them, by parameter name. */
   parameterNotes?: Record<string, string>;
   requestBody?: NamedSchema & { example?: unknown };
-  response: { status: number; description: string; body: NamedSchema };
+  /** A redirect has no body, only headers: name → what it holds. */
+  response: { status: number; description: string; body?: NamedSchema; headers?: Record<string, string> };
   /** Expected failures, each answered as problem details. */
   errors: readonly ErrorCode[];
 };
@@ -437,6 +449,31 @@ export const operations: ApiOperation[] = [
   },
   {
     method: 'get',
+    path: '/api/v1/cases/{caseId}/attachments/{attachmentId}',
+    operationId: 'downloadAttachment',
+    summary: 'Download one file of evidence',
+    description:
+      'Redirects to a signed link on the file store, valid for two minutes, served as a download with nosniff. ' +
+      'Anyone not on the case, and the referee laboratory asking for another party’s file before it has submitted its retest, ' +
+      'gets 404 as for a missing file. A withdrawn file answers 410 to everyone but the board.',
+    tag: 'Evidence',
+    pathParams: z.object({ caseId: z.uuid().describe('The case id'), attachmentId: z.uuid().describe('The file’s id, from the case file’s attachments') }),
+    response: { status: 303, description: 'See the signed link', headers: { Location: 'The signed link to the file; it expires within two minutes' } },
+    errors: ['unauthenticated', 'not_found', 'gone', 'unavailable'],
+  },
+  {
+    method: 'get',
+    path: '/api/v1/cases/{caseId}/attachments/{attachmentId}/thumbnail',
+    operationId: 'downloadAttachmentPreview',
+    summary: 'The preview of an image in the evidence',
+    description: 'A WebP of at most 320 × 320 px, under the same rules as the file itself; a file without a preview answers 404.',
+    tag: 'Evidence',
+    pathParams: z.object({ caseId: z.uuid().describe('The case id'), attachmentId: z.uuid().describe('The file’s id') }),
+    response: { status: 303, description: 'See the signed link', headers: { Location: 'The signed link to the preview; it expires within two minutes' } },
+    errors: ['unauthenticated', 'not_found', 'gone', 'unavailable'],
+  },
+  {
+    method: 'get',
     path: '/api/v1/openapi.json',
     operationId: 'getOpenApiDocument',
     summary: 'This document',
@@ -539,7 +576,10 @@ function operationObject(operation: ApiOperation): Record<string, unknown> {
   const responses: Record<string, unknown> = {
     [operation.response.status]: {
       description: operation.response.description,
-      content: { 'application/json': { schema: { $ref: SCHEMA_REF + operation.response.body.name } } },
+      ...(operation.response.body ? { content: { 'application/json': { schema: { $ref: SCHEMA_REF + operation.response.body.name } } } } : {}),
+      ...(operation.response.headers
+        ? { headers: Object.fromEntries(Object.entries(operation.response.headers).map(([name, description]) => [name, { description, schema: { type: 'string' } }])) }
+        : {}),
     },
   };
   for (const code of operation.errors) {
@@ -595,7 +635,7 @@ export function buildOpenApiDocument(list: readonly ApiOperation[] = operations)
     const item = (paths[operation.path] ??= {});
     if (item[operation.method]) throw new Error(`OpenAPI: ${operation.method} ${operation.path} is listed twice`);
     if (operation.requestBody) claim(operation.requestBody, inputs);
-    claim(operation.response.body, outputs);
+    if (operation.response.body) claim(operation.response.body, outputs);
     item[operation.method] = operationObject(operation);
   }
 

@@ -78,7 +78,7 @@ export default async function CaseFilePage({ params, searchParams }: { params: P
         {bench.allowed.includes('dispatch') ? <DispatchForm caseId={file.id} laboratories={bench.laboratories} sealNumber={bench.sample?.sealNumber ?? null} /> : null}
         {bench.allowed.includes('receive') ? <ReceiveForm caseId={file.id} sampleCode={bench.sample?.code ?? null} /> : null}
         {bench.allowed.includes('submit_retest') && rules ? (
-          <BenchForm caseId={file.id} instruments={bench.instruments} analystName={actor.name} rules={{ precision: rules.precision, calibration: { nominal: rules.calibration.nominal, readings: rules.calibration.readings, tolerance: rules.calibration.tolerance, required: rules.calibration.required } }} />
+          <BenchForm caseId={file.id} instruments={bench.instruments} analystName={actor.name} sampleCode={bench.sample?.code ?? null} rules={{ precision: rules.precision, calibration: { nominal: rules.calibration.nominal, readings: rules.calibration.readings, tolerance: rules.calibration.tolerance, required: rules.calibration.required }, hortvetConversion: rules.display.hortvetConversion }} />
         ) : null}
         {bench.proposal && (bench.hasRetest || bench.showProposal) ? <ReviewPanel assessment={bench.proposal.assessment} input={bench.proposal.input} showProposal={bench.showProposal} /> : null}
         {bench.allowed.includes('order_further_test') ? <FurtherTestForm caseId={file.id} laboratories={bench.laboratories} suggestedCode={`F-${file.number}-${file.samples.length + 1}`} /> : null}
@@ -87,7 +87,7 @@ export default async function CaseFilePage({ params, searchParams }: { params: P
         <ContestedResult file={file} />
         <Readings file={file} />
         <SamplesAndCustody file={file} />
-        <Evidence file={file} />
+        <Evidence file={file} actor={actor} />
         <Notes file={file} actor={actor} />
         <DecisionSection file={file} sealed={
             panel.decisions.length ? (
