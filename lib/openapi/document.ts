@@ -299,7 +299,7 @@ export type ApiOperation = {
   parameterNotes?: Record<string, string>;
   requestBody?: NamedSchema & { example?: unknown };
   /** A redirect has no body, only headers: name → what it holds. */
-  response: { status: number; description: string; body?: NamedSchema; headers?: Record<string, string> };
+  response: { status: number; description: string; body?: NamedSchema; headers?: Record<string, string>; file?: { mediaType: string } };
   /** Expected failures, each answered as problem details. */
   errors: readonly ErrorCode[];
 };
@@ -449,6 +449,21 @@ export const operations: ApiOperation[] = [
   },
   {
     method: 'get',
+    path: '/api/v1/cases/{caseId}/letter',
+    operationId: 'downloadDecisionLetter',
+    summary: 'Download the decision letter',
+    description:
+      'The sealed decision’s letter as a PDF, for the parties of the case and its board; anyone else gets 404, as for a missing case. ' +
+      'Without `decision`, the letter of the decision in force; with it, that decision’s letter, also when a correction has superseded it. ' +
+      'A record that no longer matches its seal answers 409 and no letter is issued.',
+    tag: 'Decisions',
+    pathParams: z.object({ caseId: z.uuid().describe('The case id') }),
+    query: z.object({ decision: z.uuid().optional().describe('The id of a decision of this case') }),
+    response: { status: 200, description: 'The letter', file: { mediaType: 'application/pdf' }, headers: { 'Content-Disposition': 'attachment, with the case number and the decision in the file name' } },
+    errors: ['invalid', 'unauthenticated', 'not_found', 'conflict'],
+  },
+  {
+    method: 'get',
     path: '/api/v1/cases/{caseId}/attachments/{attachmentId}',
     operationId: 'downloadAttachment',
     summary: 'Download one file of evidence',
@@ -577,6 +592,7 @@ function operationObject(operation: ApiOperation): Record<string, unknown> {
     [operation.response.status]: {
       description: operation.response.description,
       ...(operation.response.body ? { content: { 'application/json': { schema: { $ref: SCHEMA_REF + operation.response.body.name } } } } : {}),
+      ...(operation.response.file ? { content: { [operation.response.file.mediaType]: { schema: { type: 'string', format: 'binary' } } } } : {}),
       ...(operation.response.headers
         ? { headers: Object.fromEntries(Object.entries(operation.response.headers).map(([name, description]) => [name, { description, schema: { type: 'string' } }])) }
         : {}),
