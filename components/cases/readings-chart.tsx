@@ -19,32 +19,27 @@ export function ReadingsChart({ sets, r, criticalDifference, limit, acceptanceLi
   const mean = results.length === 2 ? (results[0] + results[1]) / 2 : null;
   const fmt = (v: number) => v.toFixed(3).replace('-', '−');
   return (
-    <figure aria-label="Readings of both laboratories against the repeatability limit, the critical difference and the limit">
-      <div className="h-72 w-full">
-        <ResponsiveContainer>
-          <ScatterChart margin={{ top: 10, right: 110, bottom: 10, left: 10 }}>
-            <CartesianGrid stroke="#d9d2c3" strokeDasharray="3 3" />
-            <XAxis type="number" dataKey="x" name="Reading" domain={[0.5, 4.5]} ticks={[1, 2, 3, 4]} allowDecimals={false} label={{ value: 'reading number', position: 'insideBottom', offset: -4 }} />
-            <YAxis type="number" dataKey="y" name="Freezing point" unit=" °C" domain={[lo, hi]} tickFormatter={fmt} width={90} />
-            <Tooltip formatter={(value) => (typeof value === 'number' ? `${fmt(value)} °C` : String(value))} />
-            <Legend verticalAlign="top" />
-            {mean !== null && criticalDifference !== null ? <ReferenceArea y1={mean - criticalDifference / 2} y2={mean + criticalDifference / 2} fill="#dcefee" fillOpacity={0.6} label={{ value: 'critical difference', position: 'right', fontSize: 11 }} /> : null}
-            {sets.map((s, i) =>
-              s.result === null ? null : <ReferenceArea key={`band-${s.label}`} y1={s.result - r / 2} y2={s.result + r / 2} stroke={colours[i]} strokeDasharray="4 2" fillOpacity={0} />,
-            )}
-            <ReferenceLine y={limit} stroke="#a23b1c" strokeWidth={2} label={{ value: `limit ${fmt(limit)}`, position: 'right', fill: '#a23b1c', fontSize: 11 }} />
-            {acceptanceLimit !== null && Math.abs(acceptanceLimit - limit) > 1e-9 ? (
-              <ReferenceLine y={acceptanceLimit} stroke="#a23b1c" strokeDasharray="6 3" label={{ value: `acceptance ${fmt(acceptanceLimit)}`, position: 'right', fill: '#a23b1c', fontSize: 11 }} />
-            ) : null}
-            {sets.map((s, i) => (
-              <Scatter key={s.label} name={s.label} data={s.readings.map((y, j) => ({ x: j + 1 + (i === 0 ? -0.08 : 0.08), y }))} fill={colours[i]} shape={shapes[i]} />
-            ))}
-          </ScatterChart>
-        </ResponsiveContainer>
-      </div>
-      <figcaption className="text-xs text-brine">
-        Dashed boxes: each result ± r/2 (repeatability). Shaded: the critical difference around the mean of both results; both results inside it means the laboratories agree. Red: the limit, and the acceptance limit after the guard band. Warmer (less negative) is up.
-      </figcaption>
-    </figure>
+    <div className="h-72 w-full">
+      <ResponsiveContainer>
+        <ScatterChart margin={{ top: 10, right: 110, bottom: 10, left: 10 }}>
+          <CartesianGrid stroke="#d9d2c3" strokeDasharray="3 3" />
+          <XAxis type="number" dataKey="x" name="Reading" domain={[0.5, 4.5]} ticks={[1, 2, 3, 4]} allowDecimals={false} label={{ value: 'reading number', position: 'insideBottom', offset: -4 }} />
+          <YAxis type="number" dataKey="y" name="Freezing point" unit=" °C" domain={[lo, hi]} tickFormatter={fmt} width={90} />
+          <Tooltip formatter={(value) => (typeof value === 'number' ? `${fmt(value)} °C` : String(value))} />
+          <Legend verticalAlign="top" />
+          {mean !== null && criticalDifference !== null ? <ReferenceArea y1={mean - criticalDifference / 2} y2={mean + criticalDifference / 2} fill="#dcefee" fillOpacity={0.6} label={{ value: 'critical difference', position: 'right', fontSize: 11 }} /> : null}
+          {sets.map((s, i) =>
+            s.result === null ? null : <ReferenceArea key={`band-${s.label}`} y1={s.result - r / 2} y2={s.result + r / 2} stroke={colours[i]} strokeDasharray="4 2" fillOpacity={0} />,
+          )}
+          <ReferenceLine y={limit} stroke="#a23b1c" strokeWidth={2} label={{ value: `limit ${fmt(limit)}`, position: 'right', fill: '#a23b1c', fontSize: 11 }} />
+          {acceptanceLimit !== null && Math.abs(acceptanceLimit - limit) > 1e-9 ? (
+            <ReferenceLine y={acceptanceLimit} stroke="#a23b1c" strokeDasharray="6 3" label={{ value: `acceptance ${fmt(acceptanceLimit)}`, position: 'right', fill: '#a23b1c', fontSize: 11 }} />
+          ) : null}
+          {sets.map((s, i) => (
+            <Scatter key={s.label} name={s.label} data={s.readings.map((y, j) => ({ x: j + 1 + (i === 0 ? -0.08 : 0.08), y }))} fill={colours[i]} shape={shapes[i]} />
+          ))}
+        </ScatterChart>
+      </ResponsiveContainer>
+    </div>
   );
 }

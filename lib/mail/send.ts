@@ -1,6 +1,6 @@
 import 'server-only';
 import type { ReactElement } from 'react';
-import { render } from '@react-email/components';
+import { render, toPlainText } from '@react-email/components';
 import { and, asc, eq, isNotNull, lt, sql } from 'drizzle-orm';
 import { getDb } from '@/db/client';
 import { outgoingMail } from '@/db/schema';
@@ -23,7 +23,9 @@ export type OutgoingMessage = {
  */
 export async function sendMail(message: OutgoingMessage): Promise<{ id: string; status: 'sent' | 'failed' }> {
   const db = getDb();
-  const [html, text] = await Promise.all([render(message.body), render(message.body, { plainText: true })]);
+  // The text part is derived from the rendered HTML, as the plain-text render would do, without rendering twice.
+  const html = await render(message.body);
+  const text = toPlainText(html);
   const [row] = await db
     .insert(outgoingMail)
     .values({ to: message.to, subject: message.subject, template: message.template, caseId: message.caseId, html, text, hasAttachments: !!message.attachments?.length })
