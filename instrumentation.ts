@@ -7,6 +7,9 @@ export async function register() {
     // signed; it refuses to start instead.
     const { signingKey } = await import('./lib/decision/signing-key');
     signingKey();
+    // `npm run db:backup` asks this process for snapshots of the folder it holds.
+    const [{ publishForThisServer }, { env }] = await Promise.all([import('./lib/backup/endpoint'), import('./lib/env')]);
+    publishForThisServer(env());
     if (process.env.APP_ENV !== 'test' && process.env.COUNTERSAMPLE_SCHEDULER !== 'off') {
       const { startScheduler } = await import('./lib/jobs/scheduler');
       startScheduler();

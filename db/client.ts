@@ -21,7 +21,7 @@ const globalForDb = globalThis as unknown as { __countersampleDb?: Handle };
  * PGlite has no lock of its own: two processes on one folder both "work" and lose writes.
  * A lock file with our pid refuses a second process, and a stale lock (dead pid) is taken over.
  */
-function takeLock(dataDir: string): () => void {
+export function takeLock(dataDir: string): () => void {
   const lockPath = `${path.resolve(dataDir)}.lock`;
   fs.mkdirSync(path.dirname(lockPath), { recursive: true });
   for (let attempt = 0; attempt < 2; attempt++) {
@@ -49,6 +49,17 @@ function takeLock(dataDir: string): () => void {
     }
   }
   throw new Error(`Could not lock the embedded database in ${dataDir}.`);
+}
+
+/** The live process that holds the folder's lock, if any (a stale lock names none). */
+export function lockHolder(dataDir: string): number | null {
+  let holder: number;
+  try {
+    holder = Number(fs.readFileSync(`${path.resolve(dataDir)}.lock`, 'utf8'));
+  } catch {
+    return null;
+  }
+  return Number.isInteger(holder) && holder > 0 && holder !== process.pid && isAlive(holder) ? holder : null;
 }
 
 function isAlive(pid: number): boolean {
