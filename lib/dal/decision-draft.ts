@@ -13,11 +13,14 @@ import type { CaseRow } from './transitions/context';
 
 export type DecisionProposal = { input: AssessmentInput; assessment: Assessment };
 
-/** What a decision on a case would rest on now: the proposal, and the settlement each outcome would bring. */
-export async function decisionBasis(db: DbOrTx, caseRow: CaseRow) {
+/**
+ * What a decision on a case would rest on now: the proposal, and the settlement each outcome would bring.
+ * A proposal the caller has already worked out for this case row (`known`) is not computed again.
+ */
+export async function decisionBasis(db: DbOrTx, caseRow: CaseRow, known?: Awaited<ReturnType<typeof proposalFor>>) {
   const [rules, proposal, [load], [result]] = await Promise.all([
     rulesVersion(db, caseRow.rulesVersionId),
-    proposalFor(db, caseRow),
+    known ?? proposalFor(db, caseRow),
     db.select({ volumeLitres: delivery.volumeLitres }).from(delivery).where(eq(delivery.id, caseRow.deliveryId)),
     db.select().from(intakeResult).where(eq(intakeResult.id, caseRow.intakeResultId)),
   ]);

@@ -9,6 +9,7 @@ import type { Settlement } from '@/lib/decision/settlement';
 import { findVisibleCase } from './cases';
 import { conflictOfInterest } from './decision-auth';
 import { decisionBasis } from './decision-draft';
+import type { proposalFor } from './case-assessment';
 import { verificationLinks } from '@/lib/decision/links';
 
 export type SettlementPreview = { lines: string[] } | { unavailable: string };
@@ -51,7 +52,7 @@ export type SealedDecisionView = {
  * The decision part of the case file for this actor: the form while an arbiter of the board may
  * sign, and the sealed decisions (newest first, superseded ones kept) once there are any.
  */
-export async function decisionPanel(db: DbOrTx, actor: Actor, caseId: string): Promise<{ form: DecisionFormData | null; decisions: SealedDecisionView[] }> {
+export async function decisionPanel(db: DbOrTx, actor: Actor, caseId: string, known: { proposal?: Awaited<ReturnType<typeof proposalFor>> } = {}): Promise<{ form: DecisionFormData | null; decisions: SealedDecisionView[] }> {
   const row = await findVisibleCase(db, actor, caseId);
   const rows = await db.select().from(decision).where(eq(decision.caseId, row.id)).orderBy(asc(decision.signedAt));
   const successorOf = new Map(rows.filter((r) => r.supersedesId).map((r) => [r.supersedesId!, r.id]));
@@ -83,7 +84,7 @@ export async function decisionPanel(db: DbOrTx, actor: Actor, caseId: string): P
   const current = decisions.find((d) => d.supersededById === null) ?? null;
   const correcting = row.status === 'decided' && current ? { decisionId: current.id, outcome: current.outcome } : null;
   if ((row.status === 'review' || correcting) && can(actor.role, 'case', 'decide')) {
-    const basis = await decisionBasis(db, row);
+    const basis = await decisionBasis(db, row, known.proposal ?? undefined);
     const settlements = {} as Record<BindingOutcome, SettlementPreview>;
     for (const outcome of bindingOutcomes) {
       const choice = basis.settlements[outcome];

@@ -1,7 +1,7 @@
 import 'server-only';
 import type { ReactElement } from 'react';
 import { render, toPlainText } from '@react-email/components';
-import { and, asc, eq, isNotNull, lt, sql } from 'drizzle-orm';
+import { and, asc, eq, isNotNull, lt, or, sql } from 'drizzle-orm';
 import { getDb } from '@/db/client';
 import { outgoingMail } from '@/db/schema';
 import { mailTransport } from './transport';
@@ -63,17 +63,29 @@ async function handOver(id: string, message: Rendered): Promise<{ id: string; st
 }
 
 const MAX_ATTEMPTS = 5;
+/** A message still queued this long after it was recorded lost its hand-over (the process died in it). */
+export const STUCK_QUEUED_MS = 15 * 60_000;
 
 /**
- * Hands failed messages to SMTP again, oldest first, up to five attempts each. A message that had
- * attachments is not retried (they are not kept); it stays failed and is listed for the administrator.
+ * Hands failed messages to SMTP again, oldest first, up to five attempts each, and messages whose
+ * hand-over never finished: a process killed mid-send leaves them queued. That may send one twice,
+ * which is better than a party never hearing of a step. A message that had attachments is not retried
+ * (they are not kept); it stays failed and is listed for the administrator.
  */
-export async function retryFailedMail(limit = 50): Promise<{ retried: number; sent: number }> {
+export async function retryFailedMail(limit = 200, now = new Date()): Promise<{ retried: number; sent: number }> {
   const db = getDb();
+  const stuckBefore = new Date(now.getTime() - STUCK_QUEUED_MS);
   const rows = await db
     .select()
     .from(outgoingMail)
-    .where(and(eq(outgoingMail.status, 'failed'), lt(outgoingMail.attempts, MAX_ATTEMPTS), eq(outgoingMail.hasAttachments, false), isNotNull(outgoingMail.html)))
+    .where(
+      and(
+        or(eq(outgoingMail.status, 'failed'), and(eq(outgoingMail.status, 'queued'), lt(outgoingMail.createdAt, stuckBefore))),
+        lt(outgoingMail.attempts, MAX_ATTEMPTS),
+        eq(outgoingMail.hasAttachments, false),
+        isNotNull(outgoingMail.html),
+      ),
+    )
     .orderBy(asc(outgoingMail.createdAt))
     .limit(limit);
   let sent = 0;

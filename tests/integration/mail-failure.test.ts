@@ -117,6 +117,17 @@ describe('when the mail relay refuses every message', () => {
       expect(after).toEqual([]);
       // A second run finds nothing left to retry.
       expect((await retryFailedMail(500)).retried).toBe(0);
+
+      // A hand-over cut short by a crash leaves the message queued: retried once it is clearly stuck, not before.
+      const [stuck] = await getDb()
+        .insert(outgoingMail)
+        .values({ to: ['plant@demo.countersample.test'], subject: 'A notice whose hand-over was cut short', template: 'case-notice', html: '<p>Sample dispatched.</p>', text: 'Sample dispatched.', createdAt: new Date(Date.now() - 2 * 60_000) })
+        .returning();
+      expect((await retryFailedMail(500)).retried).toBe(0);
+      const later = new Date(stuck.createdAt.getTime() + 16 * 60_000);
+      expect(await retryFailedMail(500, later)).toEqual({ retried: 1, sent: 1 });
+      const [delivered] = await getDb().select().from(outgoingMail).where(eq(outgoingMail.id, stuck.id));
+      expect(delivered.status).toBe('sent');
     } finally {
       await catcher.close();
     }

@@ -32,7 +32,9 @@ async function loadCase(caseId: string) {
   if (!z.uuid().safeParse(caseId).success) notFound();
   try {
     const db = getDb();
-    const [file, bench, panel] = await Promise.all([getCaseFile(db, actor, caseId), caseWorkbench(db, actor, caseId), decisionPanel(db, actor, caseId)]);
+    const [file, bench] = await Promise.all([getCaseFile(db, actor, caseId), caseWorkbench(db, actor, caseId)]);
+    // The board's form rests on the same proposal the workbench has just worked out.
+    const panel = await decisionPanel(db, actor, caseId, { proposal: bench.proposal });
     return { file, bench, panel, actor };
   } catch (error) {
     if (isAppError(error) && error.code === 'not_found') notFound();
