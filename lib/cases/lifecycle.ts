@@ -26,8 +26,9 @@ export const transitions: Record<TransitionName, TransitionSpec> = {
 
 export const transitionNames = Object.keys(transitions) as TransitionName[];
 
-export function isTransitionName(value: string): value is TransitionName {
-  return Object.hasOwn(transitions, value);
+export function isTransitionName(value: unknown): value is TransitionName {
+  // Only a string: turning an object such as { toString: 0 } into a key would throw.
+  return typeof value === 'string' && Object.hasOwn(transitions, value);
 }
 
 /** The transitions a role could make from a state, for showing the right buttons. */

@@ -1,5 +1,6 @@
 import 'server-only';
 import { and, eq, inArray } from 'drizzle-orm';
+import { z } from 'zod';
 import type { Db } from '@/db/client';
 import { disputeCase, type CaseStatus } from '@/db/schema';
 import type { Actor } from '@/lib/auth/actor';
@@ -44,6 +45,8 @@ export async function runTransition<N extends TransitionName>(
   context: { origin?: string; now?: Date; expectedStatus?: CaseStatus } = {},
 ): Promise<TransitionOutcome> {
   const spec = transitions[name];
+  // Not an id at all names no case; checked here, because the database would refuse the comparison with an error.
+  if (!z.uuid().safeParse(caseId).success) throw new AppError('not_found', 'That case was not found.');
   const [visible] = await db.select({ id: disputeCase.id }).from(disputeCase).where(and(eq(disputeCase.id, caseId), caseVisibility(actor)));
   if (!visible || !can(actor.role, 'case', 'read')) throw new AppError('not_found', 'That case was not found.');
   if (!can(actor.role, 'case', spec.permission)) throw new AppError('forbidden', `Your role cannot ${spec.label.toLowerCase()}.`);

@@ -1,5 +1,7 @@
 import { createRouteHandler } from 'uploadthing/server';
 import { uploadThingSdkConfig } from '@/lib/upload-service/settings';
+import { tooDeepJson } from '@/lib/http/json-depth';
+import { problemResponse } from '@/lib/http/problem';
 import { evidenceRouter } from './core';
 
 export const dynamic = 'force-dynamic';
@@ -9,7 +11,10 @@ export const dynamic = 'force-dynamic';
 // first request, because the settings are validated then and not while `next build` loads the module.
 let handler: ((request: Request) => Promise<Response>) | undefined;
 
-function evidenceHandler(request: Request): Promise<Response> {
+async function evidenceHandler(request: Request): Promise<Response> {
+  // The SDK answers absurdly nested JSON with a 500; refused here as the caller's mistake.
+  const refused = request.method === 'POST' ? await tooDeepJson(request) : null;
+  if (refused) return problemResponse(refused, new URL(request.url).pathname);
   handler ??= createRouteHandler({ router: evidenceRouter, config: uploadThingSdkConfig() });
   return handler(request);
 }
