@@ -1,5 +1,5 @@
 // The browser tests' runner: a production build, a throw-away embedded database with the demo
-// scenario, the mail catcher and `next start` on free ports, then the specs under Vitest.
+// scenario, the mail catcher, the local upload service and `next start` on free ports, then the specs under Vitest.
 // Everything it starts is stopped at the end, whatever happened.
 import { spawn, spawnSync, type ChildProcess } from 'node:child_process';
 import fs from 'node:fs';
@@ -99,6 +99,7 @@ function readSummary(file: string): Summary | null {
 const workDir = fs.mkdtempSync(path.join(os.tmpdir(), 'countersample-e2e-'));
 let server: ChildProcess | null = null;
 let catcher: { close: () => Promise<void> } | null = null;
+let uploadService: { close: () => Promise<void> } | null = null;
 let specs: ChildProcess | null = null;
 let cleanedUp = false;
 
@@ -108,6 +109,7 @@ async function cleanUp(): Promise<void> {
   await stopProcess(specs);
   await stopProcess(server);
   await catcher?.close().catch(() => undefined);
+  await uploadService?.close().catch(() => undefined);
   if (process.env.E2E_KEEP_DATA !== '1') fs.rmSync(workDir, { recursive: true, force: true });
 }
 
@@ -142,6 +144,15 @@ async function main(): Promise<number> {
   process.env.SMTP_URL = `smtp://127.0.0.1:${mail.smtpPort}`;
   process.env.MAIL_CATCHER_URL = `http://127.0.0.1:${mail.httpPort}`;
   log(`mail catcher on SMTP ${mail.smtpPort}, HTTP ${mail.httpPort}`);
+
+  // Uploads go to a local upload service with its own throw-away storage, whatever the shell has set.
+  const { startUploadService } = await import('../../lib/upload-service/server');
+  const { uploadThingEnv } = await import('../../lib/upload-service/config');
+  const { LOCAL_UPLOAD_API_KEY, LOCAL_UPLOAD_APP_ID } = await import('../../lib/env');
+  const uploads = await startUploadService({ port: 0, storageDir: path.join(workDir, 'uploads'), apiKey: LOCAL_UPLOAD_API_KEY, appId: LOCAL_UPLOAD_APP_ID });
+  uploadService = uploads;
+  Object.assign(process.env, uploadThingEnv({ origin: uploads.origin, apiKey: LOCAL_UPLOAD_API_KEY, appId: LOCAL_UPLOAD_APP_ID, callbackUrl: `${baseUrl}/api/uploadthing` }));
+  log(`upload service on ${uploads.origin}`);
 
   const fixtures = await seed(baseUrl);
   log(`demo scenario seeded in a temporary embedded database`);
