@@ -4,7 +4,7 @@ import type { CaseFile } from '@/lib/dal/case-file';
 import { closedReason } from '@/lib/dal/attachments';
 import { Card, EmptyState } from '@/components/ui/card';
 import { EvidenceGallery } from './evidence-gallery';
-import { EvidenceUploader } from './evidence-uploader';
+import { AddEvidence } from './add-evidence';
 
 /** The Case file's evidence: the gallery for everyone on the case, the uploader for the parties while it is open. */
 export function EvidenceSection({ file, actor }: { file: CaseFile; actor: Actor }) {
@@ -22,7 +22,7 @@ export function EvidenceSection({ file, actor }: { file: CaseFile; actor: Actor 
         ) : (
           <EvidenceGallery caseId={file.id} files={file.attachments} />
         )}
-        {uploader ? <EvidenceUploader caseId={file.id} /> : closed && can(actor.role, 'evidence', 'upload') ? <p className="text-sm text-brine">{closed}</p> : null}
+        {uploader ? <AddEvidence caseId={file.id} /> : closed && can(actor.role, 'evidence', 'upload') ? <p className="text-sm text-brine">{closed}</p> : null}
       </div>
     </Card>
   );

@@ -15,7 +15,7 @@ type Report = { added: string[]; refused: { fileName: string; reason: string }[]
 const ownClassesOnly = (...classes: (string | undefined | null | false)[]): string => classes.filter((c): c is string => typeof c === 'string' && c !== '').at(-1) ?? '';
 
 /** Kind, caption, then the files: each file is checked by the server before it joins the case. */
-export function EvidenceUploader({ caseId }: { caseId: string }) {
+export function EvidenceUploader({ caseId, autoFocus = false }: { caseId: string; autoFocus?: boolean }) {
   const router = useRouter();
   const id = useId();
   const [kind, setKind] = useState<AttachmentKind>('lab_sheet');
@@ -51,7 +51,7 @@ export function EvidenceUploader({ caseId }: { caseId: string }) {
       </h3>
       <div className="grid gap-3 sm:grid-cols-[minmax(12rem,1fr)_2fr]">
         <Field id={`${id}-kind`} label="Kind of evidence" hint={rule.hint}>
-          <Select id={`${id}-kind`} value={kind} disabled={busy} aria-describedby={describedBy(`${id}-kind`, false, true)} onChange={(e) => setKind(e.target.value as AttachmentKind)}>
+          <Select id={`${id}-kind`} value={kind} disabled={busy} autoFocus={autoFocus} aria-describedby={describedBy(`${id}-kind`, false, true)} onChange={(e) => setKind(e.target.value as AttachmentKind)}>
             {attachmentKinds.map((k) => (
               <option key={k} value={k}>
                 {kindRules[k].label}

@@ -2,7 +2,8 @@
 
 import { useEffect, useState } from 'react';
 import { Button } from '@/components/ui/button';
-import { NoteComposer, type People } from './note-composer';
+import { LazyNoteComposer } from './lazy-note-composer';
+import type { People } from './note-composer';
 
 type Props = {
   caseId: string;
@@ -48,12 +49,13 @@ export function NoteActions({ caseId, noteId, visibility, body, editableUntil, c
         </div>
       ) : (
         <div className="rounded-card border border-line bg-paper-deep/40 p-3">
-          <NoteComposer
+          <LazyNoteComposer
             caseId={caseId}
             mode={open === 'reply' ? { kind: 'reply', parentId: noteId, visibility } : { kind: 'edit', noteId, body, visibility }}
             people={people}
             organisationName={organisationName}
             onDone={() => setOpen(null)}
+            autoFocus
           />
         </div>
       )}

@@ -26,7 +26,7 @@ const labels = {
 };
 
 /** Writes a note, a reply or an edit; checks it in the browser with the server's own rules first. */
-export function NoteComposer({ caseId, mode, people, organisationName, onDone }: { caseId: string; mode: ComposerMode; people: People; organisationName: string; onDone?: () => void }) {
+export function NoteComposer({ caseId, mode, people, organisationName, onDone, autoFocus = false }: { caseId: string; mode: ComposerMode; people: People; organisationName: string; onDone?: () => void; autoFocus?: boolean }) {
   const id = useId().replace(/:/g, '');
   const [visibility, setVisibility] = useState<Visibility>(mode.kind === 'new' ? 'parties' : mode.visibility);
   const [state, setState] = useState<FormState>(null);
@@ -43,6 +43,8 @@ export function NoteComposer({ caseId, mode, people, organisationName, onDone }:
     content: mode.kind === 'edit' ? (mode.body as JSONContent) : '',
     // Rendered on the server first: the editor starts in the browser only, after hydration.
     immediatelyRender: false,
+    // Opened by a click on "Write a note", "Reply" or "Edit": the caret goes where the user meant to type.
+    autofocus: autoFocus ? 'end' : false,
     editorProps: {
       attributes: {
         id: `${id}-body`,

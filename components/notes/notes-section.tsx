@@ -8,7 +8,7 @@ import { Card, EmptyState } from '@/components/ui/card';
 import { Badge } from '@/components/ui/status';
 import { NoteBody } from './note-body';
 import { NoteActions } from './note-actions';
-import { NoteComposer } from './note-composer';
+import { NewNote } from './new-note';
 
 type CaseNote = CaseFile['notes'][number];
 
@@ -92,7 +92,7 @@ export async function NotesSection({ file, actor }: { file: CaseFile; actor: Act
           </p>
         ) : writer ? (
           <div className="rounded-card border border-line bg-paper-deep/40 p-3">
-            <NoteComposer {...shared} mode={{ kind: 'new' }} />
+            <NewNote {...shared} />
           </div>
         ) : null}
       </div>

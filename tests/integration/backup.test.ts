@@ -58,7 +58,11 @@ function filesUnder(dir: string): Map<string, string> {
   return found;
 }
 
+// The archive is of the embedded database; a PostgreSQL server is backed up with pg_dump.
+const embedded = !process.env.DATABASE_URL;
+
 beforeAll(async () => {
+  if (!embedded) return;
   await seedDemoForTests();
   const db = getDb();
   const [someCase] = await db.select().from(disputeCase).limit(1);
@@ -91,7 +95,7 @@ afterAll(() => {
   fs.rmSync(work, { recursive: true, force: true });
 });
 
-describe('backup and restore of the embedded database', () => {
+describe.skipIf(!embedded)('backup and restore of the embedded database', () => {
   it('round-trips the demo data and the stored files: every table and every file the same', async () => {
     const before = await statsOfFolder(sourceDir);
     const databaseTar = await dumpClosedFolder(sourceDir);

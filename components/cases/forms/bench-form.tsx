@@ -1,5 +1,6 @@
 'use client';
 
+import dynamic from 'next/dynamic';
 import { useFieldArray, useWatch } from 'react-hook-form';
 import { calibrationCheck, finalResult } from '@/lib/arbitration';
 import { submitRetestSchema } from '@/lib/cases/schemas';
@@ -10,9 +11,13 @@ import { Field, FormMessage, Select, TextInput } from '@/components/ui/field';
 import { FormPanel, Outcome } from './form-bits';
 import type { HortvetConversion } from '@/lib/arbitration';
 import type { ReadingFlag } from '@/db/schema/measurements';
-import { matchInstrument, type ImportedValues, type ImportMeta } from '@/lib/readings-import';
-import { CsvImport } from '@/components/readings/csv-import';
+import { matchInstrument } from '@/lib/readings-import/instrument';
+import type { ImportedValues, ImportMeta } from '@/lib/readings-import';
 import { localInputValue } from '@/components/intake/local-time';
+
+// The CSV reader (papaparse and the mapping rules) is its own chunk, fetched only where a bench form
+// is drawn, so the case page of every other role goes without it. Still rendered on the server.
+const CsvImport = dynamic(() => import('@/components/readings/csv-import').then((m) => m.CsvImport));
 
 export type BenchRules = {
   precision: { r: number; R: number };

@@ -258,6 +258,8 @@ describe('a dispute from the supplier’s desk to the board', () => {
     expect(readings).toContain('−0.5275 °C');
     expect(await page.locator('#custody').innerText()).toContain(PLANT_ANSWER);
     // The chart now plots the intake's two readings beside the laboratory's four.
+    // The charting library loads only once the figure comes into view.
+    await page.locator('#review figure').scrollIntoViewIfNeeded();
     const marks = page.locator('#review .recharts-scatter-symbol');
     await marks.nth(5).waitFor();
     expect(await marks.count()).toBe(6);
@@ -279,7 +281,8 @@ describe('a dispute from the supplier’s desk to the board', () => {
     // 24 m°C apart, far beyond the critical difference.
     expect(side).toContain('they disagree');
 
-    // The chart is drawn in the browser: its surface and one mark per reading of both laboratories.
+    // The chart is drawn in the browser once in view: its surface and one mark per reading of both laboratories.
+    await review.locator('figure').scrollIntoViewIfNeeded();
     await review.locator('figure svg.recharts-surface').first().waitFor();
     await review.locator('.recharts-scatter-symbol').nth(5).waitFor();
     expect(await review.locator('.recharts-scatter-symbol').count()).toBe(6);

@@ -54,6 +54,16 @@ async function uploadAs(page: Page, kindLabel: string, file: { name: string; mim
   await uploader.getByRole('status').filter({ hasText: `Added to the case: ${file.name}.` }).waitFor({ timeout: 30_000 });
 }
 
+/** The page carries an "Add evidence" button, not the upload SDK: a click loads the uploader and focuses its first field. */
+async function openUploader(page: Page): Promise<void> {
+  await waitForHydration(page, '[data-testid="add-evidence"]');
+  expect(await page.getByTestId('evidence-uploader').count()).toBe(0);
+  await page.getByRole('button', { name: 'Add evidence' }).click();
+  const kind = page.getByTestId('evidence-uploader').getByLabel('Kind of evidence');
+  await kind.waitFor();
+  await expect.poll(() => kind.evaluate((el) => el === document.activeElement)).toBe(true);
+}
+
 function galleryItem(page: Page, fileName: string) {
   return page.getByTestId('evidence-gallery').locator('li').filter({ hasText: fileName });
 }
@@ -64,7 +74,7 @@ describe('evidence on the case file', () => {
     flow.pdf = minimalPdf();
     flow.photo = await sampleImage('jpeg', 1280, 960);
     const page = await asParty('lab', `/cases/${flow.caseId}`);
-    await waitForHydration(page, '[data-testid="evidence-uploader"] select');
+    await openUploader(page);
 
     await uploadAs(page, 'Lab sheet', { name: 'retest-sheet.pdf', mimeType: 'application/pdf', buffer: flow.pdf }, CAPTION);
     await uploadAs(page, 'Photo', { name: 'seal-at-receipt.jpg', mimeType: 'image/jpeg', buffer: flow.photo });
@@ -75,7 +85,7 @@ describe('evidence on the case file', () => {
 
   it('lab@ is told in words when a file is not what its name says, and nothing is added', { timeout: 60_000 }, async () => {
     const page = await asParty('lab', `/cases/${flow.caseId}`);
-    await waitForHydration(page, '[data-testid="evidence-uploader"] select');
+    await openUploader(page);
     const before = await page.getByTestId('evidence-gallery').locator('li').count();
     const uploader = page.getByTestId('evidence-uploader');
     await uploader.getByLabel('Kind of evidence').selectOption({ label: 'Lab sheet' });

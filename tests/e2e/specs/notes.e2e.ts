@@ -1,6 +1,6 @@
 import { afterAll, describe, expect, it } from 'vitest';
 import type { Page } from 'playwright-core';
-import { openBrowser, screenshot, useSession, type BrowserSession } from '../support/browser';
+import { openBrowser, screenshot, useSession, waitForHydration, type BrowserSession } from '../support/browser';
 import { fixtures } from '../support/fixtures';
 
 // Notes on the demo case under review: the supplier writes a shared note with a link and answers it,
@@ -45,6 +45,17 @@ async function editorIn(page: Page, form: ReturnType<typeof newForm>) {
   return editor;
 }
 
+/** The page carries a button, not the editor: a click loads the editor and puts the caret in it. */
+async function openNewNote(page: Page) {
+  await waitForHydration(page, '[data-testid="write-note"]');
+  expect(await newForm(page).count()).toBe(0);
+  await notes(page).getByRole('button', { name: 'Write a note' }).click();
+  const form = newForm(page);
+  const editor = await editorIn(page, form);
+  await expect.poll(() => editor.evaluate((el) => el === document.activeElement || el.contains(document.activeElement))).toBe(true);
+  return { form, editor };
+}
+
 /** What script could have left behind, and what the notes section holds that it should not. */
 async function inertness(page: Page) {
   return page.evaluate(() => {
@@ -65,8 +76,7 @@ describe('notes on a case', () => {
     const { page, dialogs } = await asParty('supplier');
     await notes(page).waitFor();
     expect(await notes(page).getByText(PLANT_INTERNAL).count()).toBe(0);
-    const form = newForm(page);
-    const editor = await editorIn(page, form);
+    const { form, editor } = await openNewNote(page);
     await form.getByText('Everyone on the case').waitFor();
     await editor.click();
     await page.keyboard.type(`${SHARED}: `);
@@ -92,6 +102,7 @@ describe('notes on a case', () => {
     const replyForm = page.getByTestId('note-form-reply');
     const replyEditor = replyForm.locator('[data-testid="note-editor"][contenteditable="true"]');
     await replyEditor.waitFor();
+    await expect.poll(() => replyEditor.evaluate((el) => el === document.activeElement || el.contains(document.activeElement))).toBe(true);
     await replyEditor.click();
     await page.keyboard.type(REPLY);
     await replyForm.getByRole('button', { name: 'Post reply' }).click();
@@ -101,8 +112,7 @@ describe('notes on a case', () => {
 
   it('supplier@ posts a note that tries to carry script; the editor refuses a javascript: link and keeps the rest as text', async () => {
     const { page, dialogs } = await asParty('supplier');
-    const form = newForm(page);
-    const editor = await editorIn(page, form);
+    const { form, editor } = await openNewNote(page);
     await editor.click();
     await page.keyboard.type(TYPED_PAYLOAD);
 
