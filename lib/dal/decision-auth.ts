@@ -1,9 +1,10 @@
 import 'server-only';
-import { and, eq, inArray, sql } from 'drizzle-orm';
+import { and, eq, inArray } from 'drizzle-orm';
 import { verifyPassword } from 'better-auth/crypto';
 import type { DbOrTx } from '@/db/client';
 import { account, delivery, organisation, supplierFarm } from '@/db/schema';
 import type { Actor } from '@/lib/auth/actor';
+import { clearAttempts, countAttempt } from '@/lib/throttle/window-counter';
 import { AppError } from '@/lib/errors';
 import type { CaseRow } from './transitions/context';
 
@@ -17,24 +18,12 @@ export const SIGNING_WINDOW_MS = 15 * 60_000;
 
 const throttleKey = (userId: string) => `decision-signing:${userId}`;
 
-async function countAttempt(db: DbOrTx, userId: string, now: number): Promise<number> {
-  const windowStart = now - SIGNING_WINDOW_MS;
-  const result = await db.execute<{ count: number }>(sql`
-    insert into rate_limit (id, key, count, last_request) values (${crypto.randomUUID()}, ${throttleKey(userId)}, 1, ${now})
-    on conflict (key) do update set
-      count = case when rate_limit.last_request < ${windowStart} then 1 else rate_limit.count + 1 end,
-      last_request = case when rate_limit.last_request < ${windowStart} then ${now} else rate_limit.last_request end
-    returning count`);
-  const rows = 'rows' in result ? (result.rows as { count: number }[]) : (result as unknown as { count: number }[]);
-  return Number(rows[0]?.count ?? 0);
-}
-
 /**
  * Re-checks the signer's password against their better-auth credential. A wrong one is a field
  * error and changes nothing but the count; too many in the window refuse even the right one.
  */
 export async function reauthenticate(db: DbOrTx, actor: Actor, password: string, now = new Date()): Promise<{ at: Date; method: 'password' }> {
-  const attempts = await countAttempt(db, actor.userId, now.getTime());
+  const attempts = await countAttempt(throttleKey(actor.userId), SIGNING_WINDOW_MS, now.getTime(), db);
   if (attempts > SIGNING_MAX_FAILURES) {
     throw new AppError('rate_limited', 'Too many wrong passwords at signing. Wait 15 minutes, then try again; nothing was signed.');
   }
@@ -46,7 +35,7 @@ export async function reauthenticate(db: DbOrTx, actor: Actor, password: string,
   if (!valid) {
     throw new AppError('invalid', 'The password is not correct; nothing was signed.', { fieldErrors: { password: ['The password is not correct.'] } });
   }
-  await db.execute(sql`delete from rate_limit where key = ${throttleKey(actor.userId)}`);
+  await clearAttempts(throttleKey(actor.userId), db);
   return { at: new Date(), method: 'password' };
 }
 
