@@ -1,8 +1,11 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import { createPublicKey, verify } from 'node:crypto';
 import path from 'node:path';
 import { startMailCatcher } from '@/lib/mail/catcher';
 import type { ActorKey, World } from './support/lifecycle';
+
+// The letter check reads the caller's address for its throttle, as a server action does in a request.
+vi.mock('next/headers', () => ({ headers: async () => new Headers({ 'x-forwarded-for': '192.0.2.10' }) }));
 
 // env() reads SMTP_URL once: the catcher must listen and the variables be set before the app is loaded.
 const catcher = await startMailCatcher({ smtpPort: 0, httpPort: 0 });
