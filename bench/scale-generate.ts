@@ -28,8 +28,8 @@ import { demoOrganisations, demoUsers } from '@/db/seed/demo-names';
 import { createOrganisation, createUserWithPassword } from '@/db/seed/factories';
 import { seededRandom } from '@/db/seed/random';
 import { DEMO_REAUTHENTICATION } from '@/db/seed/demo-cases';
-import { auditEventSchema } from '@/lib/audit/events';
-import { GENESIS_HASH, hashAuditContent } from '@/lib/audit/chain';
+import { GENESIS_HASH } from '@/lib/audit/chain';
+import { chainedRow } from '@/lib/audit/record';
 import { decisionBasis, settlementOrRefusal } from '@/lib/dal/decision-draft';
 import { insertSealedDecision } from '@/lib/dal/decision-seal';
 import { bindingOutcomes, SIGNATURE_MEANING, type BindingOutcome } from '@/lib/decision/labels';
@@ -67,23 +67,10 @@ async function appendAuditChain(db: Db, pending: PendingAudit[]): Promise<number
   let seq = last?.seq ?? 0;
   pending.sort((a, b) => a.context.at.getTime() - b.context.at.getTime());
   const rows: (typeof auditEvent.$inferInsert)[] = pending.map(({ context, input }) => {
-    const event = auditEventSchema.parse(input);
-    const content = {
-      at: context.at.toISOString(),
-      actorUserId: context.actorUserId,
-      actorOrganisationId: context.actorOrganisationId,
-      action: event.action,
-      objectType: event.objectType,
-      objectId: event.objectId,
-      caseId: event.caseId ?? null,
-      change: event.change,
-      origin: context.origin ?? null,
-      prevHash,
-    };
-    const hash = hashAuditContent(content);
-    prevHash = hash;
+    const row = chainedRow(context, input, prevHash);
+    prevHash = row.hash;
     seq += 1;
-    return { ...content, seq, at: context.at, hash };
+    return { ...row, seq };
   });
   await insertChunked(rows, (chunk) => db.insert(auditEvent).values(chunk), 1000);
   // The rows carry their own sequence numbers; the next live event must follow them.

@@ -9,14 +9,14 @@ export type AuditContext = { actorUserId: string | null; actorOrganisationId: st
 // One chain for the whole database: writers queue on this advisory lock, so each row links to the one before it.
 const AUDIT_CHAIN_LOCK = 0x43534155; // "CSAU"
 
-/** Appends one event to the chain. Call it inside the transaction of the change it records. */
-export async function recordAudit(tx: DbOrTx, context: AuditContext, input: AuditEventInput): Promise<void> {
+/**
+ * The row an event becomes when it follows `prevHash` in the chain: its content and that content's
+ * hash. The one definition of what is chained, for live writes and for bulk-built datasets alike.
+ */
+export function chainedRow(context: AuditContext & { at: Date }, input: AuditEventInput, prevHash: string) {
   const event = auditEventSchema.parse(input);
-  await tx.execute(sql`select pg_advisory_xact_lock(${AUDIT_CHAIN_LOCK})`);
-  const [last] = await tx.select({ hash: auditEvent.hash }).from(auditEvent).orderBy(desc(auditEvent.seq)).limit(1);
-  const at = (context.at ?? new Date()).toISOString();
   const content = {
-    at,
+    at: context.at.toISOString(),
     actorUserId: context.actorUserId,
     actorOrganisationId: context.actorOrganisationId,
     action: event.action,
@@ -25,7 +25,14 @@ export async function recordAudit(tx: DbOrTx, context: AuditContext, input: Audi
     caseId: event.caseId ?? null,
     change: event.change,
     origin: context.origin ?? null,
-    prevHash: last?.hash ?? GENESIS_HASH,
+    prevHash,
   };
-  await tx.insert(auditEvent).values({ ...content, at: new Date(at), hash: hashAuditContent(content) });
+  return { ...content, at: context.at, hash: hashAuditContent(content) };
+}
+
+/** Appends one event to the chain. Call it inside the transaction of the change it records. */
+export async function recordAudit(tx: DbOrTx, context: AuditContext, input: AuditEventInput): Promise<void> {
+  await tx.execute(sql`select pg_advisory_xact_lock(${AUDIT_CHAIN_LOCK})`);
+  const [last] = await tx.select({ hash: auditEvent.hash }).from(auditEvent).orderBy(desc(auditEvent.seq)).limit(1);
+  await tx.insert(auditEvent).values(chainedRow({ ...context, at: context.at ?? new Date() }, input, last?.hash ?? GENESIS_HASH));
 }
