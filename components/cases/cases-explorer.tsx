@@ -6,7 +6,7 @@ import { useQuery, keepPreviousData } from '@tanstack/react-query';
 import { createColumnHelper, flexRender, getCoreRowModel, useReactTable, type SortingState } from '@tanstack/react-table';
 import { useMemo, useState, type FormEvent } from 'react';
 import type { CaseListItem, CaseListPage } from '@/lib/dal/cases';
-import { caseStatuses } from '@/db/schema/cases';
+import { caseStatuses } from '@/lib/enums';
 import { caseStatusLabels } from '@/lib/cases/labels';
 import { formatCelsius } from '@/lib/temperature';
 import { formatMoney } from '@/lib/money/minor-units';

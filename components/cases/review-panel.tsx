@@ -1,7 +1,7 @@
 import type { Assessment, AssessmentInput } from '@/lib/arbitration';
 import { Card } from '@/components/ui/card';
 import { Badge } from '@/components/ui/status';
-import { ReadingsChartLoader } from './readings-chart-loader';
+import { ReadingsChart } from './readings-chart';
 
 const outcomeLabels: Record<Assessment['outcome'], string> = {
   uphold: 'Uphold the intake result',
@@ -49,8 +49,8 @@ export function ReviewPanel({ assessment, input, showProposal }: { assessment: A
           {assessment.acceptedValue !== null ? <p className="num">accepted value {c(assessment.acceptedValue)}</p> : null}
         </div>
       </div>
-      <div className="mt-4">
-        <ReadingsChartLoader
+      <figure className="mt-4">
+        <ReadingsChart
           sets={[
             { label: 'Plant laboratory', readings: input.original.readings, result: assessment.original.status === 'accepted' ? assessment.original.value : null },
             ...(input.retest ? [{ label: 'Referee laboratory', readings: input.retest.readings, result: assessment.retest?.status === 'accepted' ? assessment.retest.value : null }] : []),
@@ -60,7 +60,10 @@ export function ReviewPanel({ assessment, input, showProposal }: { assessment: A
           limit={input.rules.limits.upper}
           acceptanceLimit={upper?.acceptanceLimit ?? null}
         />
-      </div>
+        <figcaption className="text-xs text-brine">
+          Dashed boxes: each result ± r/2 (repeatability). Shaded: the critical difference around the mean of both results; both results inside it means the laboratories agree. Red: the limit, and the acceptance limit after the guard band. Warmer (less negative) is up. Point at a mark, box or line for its value.
+        </figcaption>
+      </figure>
       {showProposal ? (
         <div className="mt-6 border-t border-line pt-4">
           <h3 className="mb-1 text-lg font-bold">Proposal</h3>

@@ -1,6 +1,6 @@
 'use client';
 
-import { preparations, type Preparation, type ReadingFlag } from '@/db/schema/measurements';
+import { preparations, type Preparation, type ReadingFlag } from '@/lib/enums';
 import type { Precision } from '@/lib/arbitration';
 import { preparationLabels } from '@/lib/intake/practice';
 import { correctionInputSchema } from '@/lib/intake/schemas';

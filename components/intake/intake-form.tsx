@@ -2,7 +2,7 @@
 
 import Link from 'next/link';
 import { useWatch } from 'react-hook-form';
-import { preparations } from '@/db/schema/measurements';
+import { preparations } from '@/lib/enums';
 import type { InstrumentStatus } from '@/lib/intake/instrument-status';
 import { preparationLabels, sampleTemperatureCheck, SAMPLE_TEMPERATURE } from '@/lib/intake/practice';
 import { intakeInputSchema } from '@/lib/intake/schemas';

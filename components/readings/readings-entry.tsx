@@ -2,7 +2,7 @@
 
 import { useFieldArray, useWatch, type FieldValues, type UseFormReturn } from 'react-hook-form';
 import type { Precision } from '@/lib/arbitration';
-import { readingFlags, type ReadingFlag } from '@/db/schema/measurements';
+import { readingFlags, type ReadingFlag } from '@/lib/enums';
 import { flagGuidance, flagLabels } from '@/lib/intake/practice';
 import { errorAt } from '@/components/forms/use-server-form';
 import { Button } from '@/components/ui/button';

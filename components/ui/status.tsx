@@ -1,5 +1,5 @@
 import type { ReactNode } from 'react';
-import type { CaseStatus } from '@/db/schema';
+import type { CaseStatus } from '@/lib/enums';
 import { caseStatusLabels } from '@/lib/cases/labels';
 
 type Tone = 'neutral' | 'action' | 'warning' | 'failure' | 'success';

@@ -5,11 +5,9 @@ import { intakeResult } from './intake';
 import { organisation } from './organisations';
 import { schemeRules } from './rules';
 import { user } from './auth';
+import type { CaseStatus, DisputeGround } from '../../lib/enums';
 
-export const caseStatuses = ['open', 'awaiting_sample', 'retest', 'review', 'decided', 'withdrawn'] as const;
-export type CaseStatus = (typeof caseStatuses)[number];
-export const disputeGrounds = ['sampling', 'instrument', 'natural_variation', 'sample_handling', 'other'] as const;
-export type DisputeGround = (typeof disputeGrounds)[number];
+export { caseStatuses, disputeGrounds, type CaseStatus, type DisputeGround } from '../../lib/enums';
 
 /** A dispute against one intake result. The four organisation columns are what every query scopes by. */
 export const disputeCase = pgTable(

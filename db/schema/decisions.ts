@@ -2,9 +2,9 @@ import { sql } from 'drizzle-orm';
 import { boolean, check, index, jsonb, pgTable, text, timestamp, uuid, type AnyPgColumn } from 'drizzle-orm/pg-core';
 import { disputeCase } from './cases';
 import { user } from './auth';
+import type { DecisionOutcome } from '../../lib/enums';
 
-export const decisionOutcomes = ['uphold', 'reverse', 'adjust', 'further_test'] as const;
-export type DecisionOutcome = (typeof decisionOutcomes)[number];
+export { decisionOutcomes, type DecisionOutcome } from '../../lib/enums';
 
 /** A binding decision. Rows are never updated; a correction is a new decision that supersedes this one. */
 export const decision = pgTable(

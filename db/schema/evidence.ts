@@ -3,9 +3,9 @@ import { bigint, check, index, jsonb, pgTable, text, timestamp, uuid, type AnyPg
 import { disputeCase } from './cases';
 import { organisation } from './organisations';
 import { user } from './auth';
+import type { AttachmentKind, NoteVisibility } from '../../lib/enums';
 
-export const attachmentKinds = ['lab_sheet', 'photo', 'calibration_certificate', 'correspondence', 'other'] as const;
-export type AttachmentKind = (typeof attachmentKinds)[number];
+export { attachmentKinds, noteVisibilities, type AttachmentKind, type NoteVisibility } from '../../lib/enums';
 
 /** A file of evidence. Never overwritten; a removal is recorded, and the file stays retrievable for the board. */
 export const attachment = pgTable(
@@ -51,9 +51,6 @@ export const attachment = pgTable(
     ),
   ],
 );
-
-export const noteVisibilities = ['parties', 'internal'] as const;
-export type NoteVisibility = (typeof noteVisibilities)[number];
 
 /** A threaded note; the body is Tiptap JSON, validated against the editor's schema on write. */
 export const note = pgTable(

@@ -4,9 +4,9 @@ import { delivery } from './deliveries';
 import { measurementSet } from './measurements';
 import { schemeRules } from './rules';
 import { user } from './auth';
+import type { IntakeVerdict } from '../../lib/enums';
 
-export const intakeVerdicts = ['accepted', 'deducted', 'rejected'] as const;
-export type IntakeVerdict = (typeof intakeVerdicts)[number];
+export { intakeVerdicts, type IntakeVerdict } from '../../lib/enums';
 
 /**
  * The plant's verdict on a delivery. A correction never edits a row: it adds a new one that

@@ -5,13 +5,9 @@ import { organisation } from './organisations';
 import { instrument, calibrationCheck } from './instruments';
 import { user } from './auth';
 import { disputeCase } from './cases';
+import type { MeasurementPurpose, Preparation, ResultBasis, ReadingFlag } from '../../lib/enums';
 
-export const measurementPurposes = ['intake', 'retest', 'further_test'] as const;
-export type MeasurementPurpose = (typeof measurementPurposes)[number];
-export const preparations = ['none', 'prewarmed'] as const;
-export type Preparation = (typeof preparations)[number];
-export const resultBases = ['mean_of_2', 'mean_of_4', 'median_of_4'] as const;
-export type ResultBasis = (typeof resultBases)[number];
+export { measurementPurposes, preparations, resultBases, readingFlags, type MeasurementPurpose, type Preparation, type ResultBasis, type ReadingFlag } from '../../lib/enums';
 
 /** The readings of one sample by one laboratory on one instrument, and the final result derived from them. */
 export const measurementSet = pgTable(
@@ -56,9 +52,6 @@ export const measurementSet = pgTable(
     ),
   ],
 );
-
-export const readingFlags = ['none', 'early_crystallisation', 'no_crystallisation'] as const;
-export type ReadingFlag = (typeof readingFlags)[number];
 
 export const reading = pgTable(
   'reading',

@@ -1,8 +1,8 @@
 import { sql } from 'drizzle-orm';
 import { check, index, pgTable, text, timestamp, uuid } from 'drizzle-orm/pg-core';
+import type { OrganisationKind } from '../../lib/enums';
 
-export const organisationKinds = ['plant', 'supplier', 'lab', 'board'] as const;
-export type OrganisationKind = (typeof organisationKinds)[number];
+export { organisationKinds, type OrganisationKind } from '../../lib/enums';
 
 export const organisation = pgTable(
   'organisation',

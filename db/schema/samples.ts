@@ -4,9 +4,9 @@ import { delivery } from './deliveries';
 import { organisation } from './organisations';
 import { user } from './auth';
 import { disputeCase } from './cases';
+import type { SampleKind, CustodyEventKind } from '../../lib/enums';
 
-export const sampleKinds = ['routine', 'retained', 'counter', 'referee', 'authentic'] as const;
-export type SampleKind = (typeof sampleKinds)[number];
+export { sampleKinds, custodyEventKinds, type SampleKind, type CustodyEventKind } from '../../lib/enums';
 
 export const sample = pgTable(
   'sample',
@@ -31,9 +31,6 @@ export const sample = pgTable(
     check('sample_kind_check', sql`${t.kind} in ('routine', 'retained', 'counter', 'referee', 'authentic')`),
   ],
 );
-
-export const custodyEventKinds = ['sealed', 'stored', 'dispatched', 'received', 'seal_checked', 'opened', 'disposed'] as const;
-export type CustodyEventKind = (typeof custodyEventKinds)[number];
 
 export const custodyEvent = pgTable(
   'custody_event',

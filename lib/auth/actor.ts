@@ -1,4 +1,4 @@
-import type { OrganisationKind } from '@/db/schema';
+import type { OrganisationKind } from '@/lib/enums';
 import type { Role } from './permissions';
 
 /** Who is acting: what every data-access function takes and scopes by. Never the whole user row. */

@@ -1,4 +1,4 @@
-import type { CaseStatus } from '@/db/schema';
+import type { CaseStatus } from '@/lib/enums';
 
 export const caseStatusLabels: Record<CaseStatus, string> = {
   open: 'Opened',

@@ -1,4 +1,4 @@
-import type { CaseStatus } from '@/db/schema';
+import type { CaseStatus } from '@/lib/enums';
 import type { Action } from '@/lib/auth/permissions';
 
 /**

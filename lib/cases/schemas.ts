@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { disputeGrounds, readingFlags, preparations } from '@/db/schema';
+import { disputeGrounds, readingFlags, preparations } from '@/lib/enums';
 
 // Shared by the forms in the browser and the server actions and routes: one set of rules and messages.
 

@@ -1,4 +1,4 @@
-import type { DecisionOutcome } from '@/db/schema';
+import type { DecisionOutcome } from '@/lib/enums';
 
 /** What the signature means, recorded with it and printed on the letter (21 CFR 11.50). */
 export const SIGNATURE_MEANING = 'binding decision';

@@ -1,4 +1,4 @@
-import type { AttachmentKind } from '@/db/schema/evidence';
+import type { AttachmentKind } from '@/lib/enums';
 
 export type { AttachmentKind };
 

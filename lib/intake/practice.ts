@@ -1,4 +1,4 @@
-import type { Preparation, ReadingFlag } from '@/db/schema/measurements';
+import type { Preparation, ReadingFlag } from '@/lib/enums';
 
 /**
  * The test portion is brought to 20 ± 2 °C before it goes into the cryoscope (common practice, no

@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { preparations, readingFlags } from '@/db/schema/measurements';
+import { preparations, readingFlags } from '@/lib/enums';
 import { SODIUM_CHLORIDE_TABLE } from '@/lib/arbitration';
 
 // Shared by the browser forms (react-hook-form's resolver) and the data layer: one set of rules and

@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { noteVisibilities } from '@/db/schema/evidence';
+import { noteVisibilities } from '@/lib/enums';
 import { validateNoteBody, type NoteDoc } from './validate';
 
 /** The body field: editor JSON checked against the notes' schema, and returned re-serialised. */

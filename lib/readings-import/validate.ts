@@ -1,5 +1,5 @@
 import type { HortvetConversion } from '@/lib/arbitration';
-import { readingFlags, type ReadingFlag } from '@/db/schema/measurements';
+import { readingFlags, type ReadingFlag } from '@/lib/enums';
 import { formatCelsius } from '@/lib/temperature';
 import { SAMPLE_READINGS, unitLabels, type ImportField, type ImportUnit } from './layout';
 import type { Mapping } from './mapping';

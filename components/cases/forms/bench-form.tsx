@@ -10,7 +10,7 @@ import { Button } from '@/components/ui/button';
 import { Field, FormMessage, Select, TextInput } from '@/components/ui/field';
 import { FormPanel, Outcome } from './form-bits';
 import type { HortvetConversion } from '@/lib/arbitration';
-import type { ReadingFlag } from '@/db/schema/measurements';
+import type { ReadingFlag } from '@/lib/enums';
 import { matchInstrument } from '@/lib/readings-import/instrument';
 import type { ImportedValues, ImportMeta } from '@/lib/readings-import';
 import { localInputValue } from '@/components/intake/local-time';

@@ -1,6 +1,6 @@
 'use client';
 
-import { disputeGrounds } from '@/db/schema/cases';
+import { disputeGrounds } from '@/lib/enums';
 import { openDisputeSchema } from '@/lib/cases/schemas';
 import { openDisputeAction } from '@/app/(app)/deliveries/[deliveryId]/dispute/actions';
 import { useServerForm } from '@/components/forms/use-server-form';

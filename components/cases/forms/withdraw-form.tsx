@@ -1,6 +1,6 @@
 'use client';
 
-import type { CaseStatus } from '@/db/schema/cases';
+import type { CaseStatus } from '@/lib/enums';
 import { withdrawSchema } from '@/lib/cases/schemas';
 import { transitionCase } from '@/app/(app)/cases/[caseId]/actions';
 import { useServerForm } from '@/components/forms/use-server-form';

@@ -257,12 +257,8 @@ describe('a dispute from the supplier’s desk to the board', () => {
     expect(readings).toContain('Retest (referee laboratory)');
     expect(readings).toContain('−0.5275 °C');
     expect(await page.locator('#custody').innerText()).toContain(PLANT_ANSWER);
-    // The chart now plots the intake's two readings beside the laboratory's four.
-    // The charting library loads only once the figure comes into view.
-    await page.locator('#review figure').scrollIntoViewIfNeeded();
-    const marks = page.locator('#review .recharts-scatter-symbol');
-    await marks.nth(5).waitFor();
-    expect(await marks.count()).toBe(6);
+    // The chart now plots the intake's two readings beside the laboratory's four, one titled mark each.
+    expect(await page.locator('#review figure svg[role="img"]').locator('circle > title, path > title').count()).toBe(6);
     await screenshot(page, 'dispute-flow-3e-lab-submitted');
   });
 
@@ -281,12 +277,24 @@ describe('a dispute from the supplier’s desk to the board', () => {
     // 24 m°C apart, far beyond the critical difference.
     expect(side).toContain('they disagree');
 
-    // The chart is drawn in the browser once in view: its surface and one mark per reading of both laboratories.
-    await review.locator('figure').scrollIntoViewIfNeeded();
-    await review.locator('figure svg.recharts-surface').first().waitFor();
-    await review.locator('.recharts-scatter-symbol').nth(5).waitFor();
-    expect(await review.locator('.recharts-scatter-symbol').count()).toBe(6);
+    // The chart comes drawn with the page's HTML: one mark per reading of both laboratories, each
+    // titled with its value, and the same figures in the image's accessible name.
+    const chart = review.locator('figure svg[role="img"]');
+    const titles = await chart.locator('circle > title, path > title').allTextContents();
+    expect(titles).toHaveLength(6);
+    // Values as the chart writes them: three decimals, a fourth only when it is not zero.
+    expect(titles.filter((t) => t.startsWith('Plant laboratory, reading ')).map((t) => t.split(': ')[1]).sort()).toEqual(['−0.5031 °C', '−0.504 °C']);
+    expect(titles.filter((t) => t.startsWith('Referee laboratory, reading '))).toEqual([
+      'Referee laboratory, reading 1: −0.525 °C',
+      'Referee laboratory, reading 2: −0.530 °C',
+      'Referee laboratory, reading 3: −0.527 °C',
+      'Referee laboratory, reading 4: −0.528 °C',
+    ]);
+    const name = (await chart.getAttribute('aria-label')) ?? '';
+    expect(name).toContain('result −0.5275 °C ± r/2');
+    expect(name).toMatch(/Limit −0\.\d{3,4} °C\./);
     expect(await review.locator('figure').innerText()).toContain('Referee laboratory');
+    expect(await review.locator('figure figcaption').innerText()).toContain('critical difference');
 
     await review.getByRole('heading', { name: 'Proposal' }).waitFor();
     expect(side).toContain('Order a further test');

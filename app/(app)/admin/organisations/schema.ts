@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { organisationKinds } from '@/db/schema/organisations';
+import { organisationKinds } from '@/lib/enums';
 
 export const addOrganisationSchema = z.object({
   name: z.string().trim().min(3, 'Give the organisation’s name (at least 3 characters).').max(160),

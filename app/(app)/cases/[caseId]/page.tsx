@@ -15,7 +15,7 @@ import { formatDateTime } from '@/lib/format/dates';
 import { ReviewPanel } from '@/components/cases/review-panel';
 import { DispatchForm } from '@/components/cases/forms/dispatch-form';
 import { ReceiveForm } from '@/components/cases/forms/receive-form';
-import { BenchForm } from '@/components/cases/forms/bench-form';
+import { LazyBenchForm } from '@/components/cases/forms/lazy-bench-form';
 import { FurtherTestForm } from '@/components/cases/forms/further-test-form';
 import { WithdrawForm } from '@/components/cases/forms/withdraw-form';
 import { FormMessage } from '@/components/ui/field';
@@ -80,7 +80,7 @@ export default async function CaseFilePage({ params, searchParams }: { params: P
         {bench.allowed.includes('dispatch') ? <DispatchForm caseId={file.id} laboratories={bench.laboratories} sealNumber={bench.sample?.sealNumber ?? null} /> : null}
         {bench.allowed.includes('receive') ? <ReceiveForm caseId={file.id} sampleCode={bench.sample?.code ?? null} /> : null}
         {bench.allowed.includes('submit_retest') && rules ? (
-          <BenchForm caseId={file.id} instruments={bench.instruments} analystName={actor.name} sampleCode={bench.sample?.code ?? null} rules={{ precision: rules.precision, calibration: { nominal: rules.calibration.nominal, readings: rules.calibration.readings, tolerance: rules.calibration.tolerance, required: rules.calibration.required }, hortvetConversion: rules.display.hortvetConversion }} />
+          <LazyBenchForm caseId={file.id} instruments={bench.instruments} analystName={actor.name} sampleCode={bench.sample?.code ?? null} rules={{ precision: rules.precision, calibration: { nominal: rules.calibration.nominal, readings: rules.calibration.readings, tolerance: rules.calibration.tolerance, required: rules.calibration.required }, hortvetConversion: rules.display.hortvetConversion }} />
         ) : null}
         {bench.proposal && (bench.hasRetest || bench.showProposal) ? <ReviewPanel assessment={bench.proposal.assessment} input={bench.proposal.input} showProposal={bench.showProposal} /> : null}
         {bench.allowed.includes('order_further_test') ? <FurtherTestForm caseId={file.id} laboratories={bench.laboratories} suggestedCode={`F-${file.number}-${file.samples.length + 1}`} /> : null}
