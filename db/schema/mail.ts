@@ -1,5 +1,6 @@
 import { sql } from 'drizzle-orm';
-import { boolean, check, index, integer, pgTable, text, timestamp, uuid } from 'drizzle-orm/pg-core';
+import { bigserial, boolean, check, index, integer, jsonb, pgTable, text, timestamp, uuid } from 'drizzle-orm/pg-core';
+import type { QueuedContent } from '@/lib/mail/queued-content';
 
 export const mailStatuses = ['queued', 'sent', 'failed'] as const;
 export type MailStatus = (typeof mailStatuses)[number];
@@ -20,6 +21,15 @@ export const outgoingMail = pgTable(
     html: text('html'),
     text: text('text'),
     hasAttachments: boolean('has_attachments').notNull().default(false),
+    // A message queued inside the transaction of the change it tells of: what to render, until the
+    // delivery worker renders it into html and text.
+    content: jsonb('content').$type<QueuedContent>(),
+    // When a delivery worker took the message; a claim this old with the message still queued was
+    // lost with its process, and another worker may take it.
+    claimedAt: timestamp('claimed_at', { withTimezone: true }),
+    // The order messages were written in, which is the order they go out in: timestamps of one
+    // transaction are equal, and clocks of two instances differ.
+    queueOrder: bigserial('queue_order', { mode: 'number' }).notNull(),
     messageId: text('message_id'),
     createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
     sentAt: timestamp('sent_at', { withTimezone: true }),

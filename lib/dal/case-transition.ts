@@ -11,6 +11,7 @@ import { transitionSchemas, type TransitionInputs } from '@/lib/cases/schemas';
 import { caseStatusLabel } from '@/lib/cases/labels';
 import { AppError, invalidInput } from '@/lib/errors';
 import { notifyCase } from '@/lib/mail/case-mails';
+import { mailAfterCommit } from '@/lib/mail/outbox';
 import { caseVisibility, holdsRoleOn } from './case-scope';
 import { rulesVersion } from './rules';
 import type { EffectContext, EffectResult } from './transitions/context';
@@ -34,7 +35,7 @@ export type TransitionOutcome = { caseId: string; number: string; from: string; 
  * Makes one lifecycle transition: outsiders get 404, a party without the right 403, bad input 400,
  * a case no longer in a state the transition leaves from 409. The state check, the change, its
  * effects and the audit event are one transaction on a locked row, so of two racing submits exactly
- * one wins. Mail goes out after the commit.
+ * one wins. The notices are queued in that transaction and delivered after the commit.
  */
 export async function runTransition<N extends TransitionName>(
   db: Db,
@@ -55,7 +56,7 @@ export async function runTransition<N extends TransitionName>(
   const input = parsed.data as TransitionInputs[N];
   const now = context.now ?? new Date();
 
-  const { row, effect, from } = await db.transaction(async (tx) => {
+  const { row, from } = await db.transaction(async (tx) => {
     const [locked] = await tx.select().from(disputeCase).where(eq(disputeCase.id, caseId)).for('update');
     if (!holdsRoleOn(actor, locked)) throw new AppError('forbidden', 'Your organisation no longer holds this case: the board has sent the sample to another laboratory.');
     // A form or client that says which state it saw gets 409 when the case has moved on since,
@@ -79,9 +80,10 @@ export async function runTransition<N extends TransitionName>(
       caseId,
       change: { from: locked.status, to: spec.to, transition: name, detail: result.detail },
     });
-    return { row: updated, effect: result, from: locked.status };
+    await notifyCase(tx, updated, spec.notify, result.notice);
+    return { row: updated, from: locked.status };
   });
 
-  await notifyCase(db, row, spec.notify, effect.notice);
+  await mailAfterCommit();
   return { caseId, number: row.number, from, to: spec.to, transition: name };
 }

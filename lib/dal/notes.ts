@@ -9,6 +9,7 @@ import type { Audience } from '@/lib/cases/lifecycle';
 import { noteBodySha256 } from '@/lib/decision/record';
 import { AppError, invalidInput } from '@/lib/errors';
 import { notifyCaseNote } from '@/lib/mail/case-mails';
+import { mailAfterCommit } from '@/lib/mail/outbox';
 import { NOTE_EDIT_WINDOW_MS, noteLimits } from '@/lib/notes/limits';
 import { noteExcerpt, noteText } from '@/lib/notes/plain-text';
 import { editNoteSchema, newNoteSchema, replySchema } from '@/lib/notes/schemas';
@@ -181,17 +182,18 @@ async function insertNote(db: Db, actor: Actor, caseRow: CaseRow, input: { body:
       caseId: caseRow.id,
       change: { visibility: row.visibility, parentId: row.parentId, bodySha256: noteBodySha256(body), mentions: count },
     });
+    if (row.visibility === 'parties') {
+      await notifyCaseNote(tx, caseRow, otherReaders(caseRow, actor), {
+        authorName: actor.name,
+        organisationName: actor.organisationName,
+        isReply: row.parentId !== null,
+        excerpt: noteExcerpt(body, 600),
+      });
+    }
     return row;
   });
-  if (written.visibility === 'parties') {
-    // After the commit: a mail that fails is recorded on the outbox and never undoes the note.
-    await notifyCaseNote(db, caseRow, otherReaders(caseRow, actor), {
-      authorName: actor.name,
-      organisationName: actor.organisationName,
-      isReply: written.parentId !== null,
-      excerpt: noteExcerpt(body, 600),
-    });
-  }
+  // Queued with the note; a mail that fails is recorded on the outbox and never undoes the note.
+  if (written.visibility === 'parties') await mailAfterCommit();
   return written;
 }
 

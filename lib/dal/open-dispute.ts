@@ -10,6 +10,7 @@ import { openDisputeSchema } from '@/lib/cases/schemas';
 import { AppError, invalidInput } from '@/lib/errors';
 import { formatDateTime } from '@/lib/format/dates';
 import { notifyCase } from '@/lib/mail/case-mails';
+import { mailAfterCommit } from '@/lib/mail/outbox';
 import { rulesInForce } from './rules';
 
 const CASE_NUMBER_LOCK = 0x43534e4f; // "CSNO": one writer at a time picks the next number of a year
@@ -93,14 +94,15 @@ export async function openDispute(db: Db, actor: Actor, rawInput: unknown, conte
       caseId: row.id,
       change: { number, status: 'open' },
     });
+    await notifyCase(tx, row, ['plant', 'board'], {
+      template: 'case-opened',
+      subject: 'a supplier contests an intake result',
+      headline: `${actor.organisationName} contests an intake result in ${row.number}.`,
+      lines: ['The plant laboratory completes its side and dispatches the retained sample to the referee laboratory.', `Dispatch due by ${formatDateTime(row.dispatchDueAt!)}.`],
+    });
     return row;
   });
 
-  await notifyCase(db, created, ['plant', 'board'], {
-    template: 'case-opened',
-    subject: 'a supplier contests an intake result',
-    headline: `${actor.organisationName} contests an intake result in ${created.number}.`,
-    lines: ['The plant laboratory completes its side and dispatches the retained sample to the referee laboratory.', `Dispatch due by ${formatDateTime(created.dispatchDueAt!)}.`],
-  });
+  await mailAfterCommit();
   return created;
 }

@@ -5,6 +5,7 @@ import { disputeCase, reminderSent } from '@/db/schema';
 import type { Audience } from '@/lib/cases/lifecycle';
 import { formatDateTime } from '@/lib/format/dates';
 import { notifyCase } from '@/lib/mail/case-mails';
+import { mailAfterCommit } from '@/lib/mail/outbox';
 
 const HOUR = 3_600_000;
 
@@ -20,7 +21,7 @@ export type ReminderRun = { sent: number; checked: number };
 
 /**
  * Sends the reminders that are due: once when a deadline draws near, once when it has passed. The
- * unique row in reminder_sent is claimed before the mail goes out, so two runs (or two server
+ * unique row in reminder_sent is claimed in the transaction that queues the notice, so two runs (or two server
  * instances) never send the same reminder twice.
  */
 export async function sendDueReminders(db: Db, now: Date = new Date()): Promise<ReminderRun> {
@@ -38,16 +39,22 @@ export async function sendDueReminders(db: Db, now: Date = new Date()): Promise<
       const dueAt = row[d.column]!;
       const overdue = dueAt.getTime() <= now.getTime();
       const kind = `${d.kind}:${overdue ? 'overdue' : 'soon'}`;
-      const claimed = await db.insert(reminderSent).values({ caseId: row.id, kind, dueAt, sentAt: now }).onConflictDoNothing().returning({ id: reminderSent.id });
-      if (claimed.length === 0) continue;
-      await notifyCase(db, row, d.audience as readonly Audience[], {
-        template: `reminder-${d.kind}`,
-        subject: overdue ? `overdue: ${d.what}` : `due soon: ${d.what}`,
-        headline: overdue ? `The deadline to ${d.what} passed on ${formatDateTime(dueAt)}.` : `Please ${d.what} by ${formatDateTime(dueAt)}.`,
-        lines: [overdue ? 'The case is flagged as overdue in every list until it moves on.' : 'This is the only reminder before the deadline; another follows if it passes.'],
+      // The claim and the queued notice are one transaction: a crash leaves both or neither.
+      const claimed = await db.transaction(async (tx) => {
+        const rows = await tx.insert(reminderSent).values({ caseId: row.id, kind, dueAt, sentAt: now }).onConflictDoNothing().returning({ id: reminderSent.id });
+        if (rows.length === 0) return false;
+        await notifyCase(tx, row, d.audience as readonly Audience[], {
+          template: `reminder-${d.kind}`,
+          subject: overdue ? `overdue: ${d.what}` : `due soon: ${d.what}`,
+          headline: overdue ? `The deadline to ${d.what} passed on ${formatDateTime(dueAt)}.` : `Please ${d.what} by ${formatDateTime(dueAt)}.`,
+          lines: [overdue ? 'The case is flagged as overdue in every list until it moves on.' : 'This is the only reminder before the deadline; another follows if it passes.'],
+        });
+        return true;
       });
+      if (!claimed) continue;
       sent++;
     }
   }
+  if (sent > 0) await mailAfterCommit();
   return { sent, checked };
 }

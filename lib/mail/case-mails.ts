@@ -4,9 +4,7 @@ import type { DbOrTx } from '@/db/client';
 import { user } from '@/db/schema';
 import type { Audience } from '@/lib/cases/lifecycle';
 import { env } from '@/lib/env';
-import { sendMail } from './send';
-import { CaseNoticeMail } from './templates/case-notice';
-import { NotePostedMail } from './templates/note-posted';
+import { queueMail, type QueuedMessage } from './outbox';
 
 export type CaseParties = {
   id: string;
@@ -34,42 +32,47 @@ export async function recipientsOf(db: DbOrTx, parties: CaseParties, audience: A
 export type CaseNotice = { template: string; subject: string; headline: string; lines: string[]; actionLabel?: string };
 
 /**
- * Tells each audience about a case event, one message per party. Mail goes out after the change has
- * committed; a failure is recorded on the outgoing mail and never undoes the change.
+ * Queues a notice of a case event for each audience, one message per party, in the transaction of
+ * the event itself; the delivery worker sends them once it has committed (mailAfterCommit). A
+ * failed hand-over is recorded on the message and never undoes the change.
  */
-export async function notifyCase(db: DbOrTx, parties: CaseParties, audiences: readonly Audience[], notice: CaseNotice | ((audience: Audience) => CaseNotice)) {
+export async function notifyCase(tx: DbOrTx, parties: CaseParties, audiences: readonly Audience[], notice: CaseNotice | ((audience: Audience) => CaseNotice)) {
   const url = `${env().BETTER_AUTH_URL}/cases/${parties.id}`;
+  const messages: QueuedMessage[] = [];
   for (const audience of audiences) {
-    const to = await recipientsOf(db, parties, audience);
+    const to = await recipientsOf(tx, parties, audience);
     if (to.length === 0) continue;
     const n = typeof notice === 'function' ? notice(audience) : notice;
-    await sendMail({
+    messages.push({
       to,
       subject: `${parties.number}: ${n.subject}`,
       template: n.template,
       caseId: parties.id,
-      body: <CaseNoticeMail greeting="Hello," headline={n.headline} lines={n.lines} url={url} actionLabel={n.actionLabel ?? `Open ${parties.number}`} />,
+      content: { layout: 'case-notice', props: { greeting: 'Hello,', headline: n.headline, lines: n.lines, url, actionLabel: n.actionLabel ?? `Open ${parties.number}` } },
     });
   }
+  await queueMail(tx, messages);
 }
 
-/** Tells each audience of a shared note, one message per party, after the note has committed. */
+/** Queues the news of a shared note for each audience, one message per party, in the note's transaction. */
 export async function notifyCaseNote(
-  db: DbOrTx,
+  tx: DbOrTx,
   parties: CaseParties,
   audiences: readonly Audience[],
   note: { authorName: string; organisationName: string; isReply: boolean; excerpt: string },
 ) {
   const url = `${env().BETTER_AUTH_URL}/cases/${parties.id}#notes`;
+  const messages: QueuedMessage[] = [];
   for (const audience of audiences) {
-    const to = await recipientsOf(db, parties, audience);
+    const to = await recipientsOf(tx, parties, audience);
     if (to.length === 0) continue;
-    await sendMail({
+    messages.push({
       to,
       subject: `${parties.number}: ${note.isReply ? 'a reply' : 'a new note'} from ${note.organisationName}`,
       template: 'note-posted',
       caseId: parties.id,
-      body: <NotePostedMail caseNumber={parties.number} {...note} url={url} />,
+      content: { layout: 'note-posted', props: { caseNumber: parties.number, ...note, url } },
     });
   }
+  await queueMail(tx, messages);
 }

@@ -41,6 +41,9 @@ export async function startMailCatcher(options: { smtpPort?: number; httpPort?: 
 
   const smtp = new SMTPServer({
     disabledCommands: ['STARTTLS', 'AUTH'],
+    // A catcher on loopback has no use for the client's host name, and on a machine without DNS the
+    // reverse lookup stalls every connection.
+    disableReverseLookup: true,
     authOptional: true,
     logger: false,
     size: 25 * 1024 * 1024,

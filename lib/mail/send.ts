@@ -1,9 +1,10 @@
 import 'server-only';
 import type { ReactElement } from 'react';
 import { render, toPlainText } from '@react-email/components';
-import { and, asc, eq, isNotNull, lt, or, sql } from 'drizzle-orm';
+import { and, asc, eq, isNotNull, lt, sql } from 'drizzle-orm';
 import { getDb } from '@/db/client';
 import { outgoingMail } from '@/db/schema';
+import type { Transporter } from 'nodemailer';
 import { mailTransport } from './transport';
 
 export type MailAttachment = { filename: string; content: Buffer; contentType: string };
@@ -18,8 +19,10 @@ export type OutgoingMessage = {
 };
 
 /**
- * Records the message, then hands it to SMTP. A failed hand-over is recorded, not thrown: the change
- * that caused the mail has already committed, and the scheduled job retries what failed (retryFailedMail).
+ * Records the message, then hands it to SMTP at once: for messages the user waits for (sign-in links)
+ * and those with attachments, which are not kept. Case notices are queued in their change's
+ * transaction instead (queueMail). A failed hand-over is recorded, not thrown: the change that caused
+ * the mail has already committed, and the scheduled job retries what failed (retryFailedMail).
  */
 export async function sendMail(message: OutgoingMessage): Promise<{ id: string; status: 'sent' | 'failed' }> {
   const db = getDb();
@@ -28,17 +31,18 @@ export async function sendMail(message: OutgoingMessage): Promise<{ id: string; 
   const text = toPlainText(html);
   const [row] = await db
     .insert(outgoingMail)
-    .values({ to: message.to, subject: message.subject, template: message.template, caseId: message.caseId, html, text, hasAttachments: !!message.attachments?.length })
+    // Claimed by this call from the start, so the delivery worker leaves it alone unless this process dies in the hand-over.
+    .values({ to: message.to, subject: message.subject, template: message.template, caseId: message.caseId, html, text, hasAttachments: !!message.attachments?.length, claimedAt: new Date() })
     .returning({ id: outgoingMail.id });
   return handOver(row.id, { to: message.to, subject: message.subject, template: message.template, html, text, attachments: message.attachments });
 }
 
 type Rendered = { to: string[]; subject: string; template: string; html: string; text: string; attachments?: MailAttachment[] };
 
-async function handOver(id: string, message: Rendered): Promise<{ id: string; status: 'sent' | 'failed' }> {
+export async function handOver(id: string, message: Rendered, transport: Transporter = mailTransport()): Promise<{ id: string; status: 'sent' | 'failed' }> {
   const db = getDb();
   try {
-    const info = await mailTransport().sendMail({
+    const info = await transport.sendMail({
       to: message.to,
       subject: message.subject,
       html: message.html,
@@ -63,24 +67,23 @@ async function handOver(id: string, message: Rendered): Promise<{ id: string; st
 }
 
 const MAX_ATTEMPTS = 5;
-/** A message still queued this long after it was recorded lost its hand-over (the process died in it). */
+/** A message still queued this long after a worker claimed it lost its hand-over (the process died in it). */
 export const STUCK_QUEUED_MS = 15 * 60_000;
 
 /**
- * Hands failed messages to SMTP again, oldest first, up to five attempts each, and messages whose
- * hand-over never finished: a process killed mid-send leaves them queued. That may send one twice,
- * which is better than a party never hearing of a step. A message that had attachments is not retried
- * (they are not kept); it stays failed and is listed for the administrator.
+ * Hands failed messages to SMTP again, oldest first, up to five attempts each. (Messages left queued
+ * by a process that died are the delivery worker's: deliverQueuedMail takes them once their claim is
+ * stale.) A message that had attachments is not retried (they are not kept); it stays failed and is
+ * listed for the administrator.
  */
-export async function retryFailedMail(limit = 200, now = new Date()): Promise<{ retried: number; sent: number }> {
+export async function retryFailedMail(limit = 200): Promise<{ retried: number; sent: number }> {
   const db = getDb();
-  const stuckBefore = new Date(now.getTime() - STUCK_QUEUED_MS);
   const rows = await db
     .select()
     .from(outgoingMail)
     .where(
       and(
-        or(eq(outgoingMail.status, 'failed'), and(eq(outgoingMail.status, 'queued'), lt(outgoingMail.createdAt, stuckBefore))),
+        eq(outgoingMail.status, 'failed'),
         lt(outgoingMail.attempts, MAX_ATTEMPTS),
         eq(outgoingMail.hasAttachments, false),
         isNotNull(outgoingMail.html),

@@ -118,14 +118,16 @@ describe('when the mail relay refuses every message', () => {
       // A second run finds nothing left to retry.
       expect((await retryFailedMail(500)).retried).toBe(0);
 
-      // A hand-over cut short by a crash leaves the message queued: retried once it is clearly stuck, not before.
+      // A hand-over cut short by a crash leaves the message queued and claimed: taken again once the claim is clearly stale, not before.
+      const { deliverQueuedMail } = await import('@/lib/mail/outbox');
+      const claimedAt = new Date(Date.now() - 2 * 60_000);
       const [stuck] = await getDb()
         .insert(outgoingMail)
-        .values({ to: ['plant@demo.countersample.test'], subject: 'A notice whose hand-over was cut short', template: 'case-notice', html: '<p>Sample dispatched.</p>', text: 'Sample dispatched.', createdAt: new Date(Date.now() - 2 * 60_000) })
+        .values({ to: ['plant@demo.countersample.test'], subject: 'A notice whose hand-over was cut short', template: 'case-notice', html: '<p>Sample dispatched.</p>', text: 'Sample dispatched.', createdAt: claimedAt, claimedAt })
         .returning();
-      expect((await retryFailedMail(500)).retried).toBe(0);
-      const later = new Date(stuck.createdAt.getTime() + 16 * 60_000);
-      expect(await retryFailedMail(500, later)).toEqual({ retried: 1, sent: 1 });
+      expect((await deliverQueuedMail()).claimed).toBe(0);
+      const later = new Date(claimedAt.getTime() + 16 * 60_000);
+      expect(await deliverQueuedMail(() => later)).toEqual({ claimed: 1, sent: 1 });
       const [delivered] = await getDb().select().from(outgoingMail).where(eq(outgoingMail.id, stuck.id));
       expect(delivered.status).toBe('sent');
     } finally {

@@ -3,6 +3,9 @@ import { sql } from 'drizzle-orm';
 
 process.env.APP_ENV = 'test';
 if (!process.env.DATABASE_URL) process.env.PGLITE_DIR = 'memory://';
+// A call that queues mail returns once it is delivered, so a test reads the catcher right after it.
+// The outbox test sets this to 'background' to prove the request does not wait.
+process.env.MAIL_DELIVERY ??= 'inline';
 
 beforeAll(async () => {
   const { getDb } = await import('@/db/client');
@@ -15,6 +18,8 @@ beforeAll(async () => {
 });
 
 afterAll(async () => {
+  const { mailSettled } = await import('@/lib/mail/outbox');
+  await mailSettled();
   const { closeDb } = await import('@/db/client');
   const { forgetMigration } = await import('@/db/migrate');
   const { resetAuthForTests } = await import('@/lib/auth/auth');

@@ -1,0 +1,128 @@
+import 'server-only';
+import { sql } from 'drizzle-orm';
+import type { DbOrTx } from '@/db/client';
+import { getDb } from '@/db/client';
+import { outgoingMail } from '@/db/schema';
+import type { QueuedContent } from './queued-content';
+import { renderQueued } from './render-queued';
+import { handOver, STUCK_QUEUED_MS } from './send';
+import { pooledMailTransport } from './transport';
+
+export type QueuedMessage = { to: string[]; subject: string; template: string; caseId?: string; content: QueuedContent };
+
+/**
+ * Records messages in the caller's transaction: they exist exactly when the change they tell of
+ * committed, so neither a crash nor a rollback leaves a notice without its change or a change
+ * without its notice. Nothing is rendered or sent here; call mailAfterCommit once committed.
+ */
+export async function queueMail(tx: DbOrTx, messages: QueuedMessage[]): Promise<void> {
+  if (messages.length === 0) return;
+  await tx.insert(outgoingMail).values(messages.map((m) => ({ to: m.to, subject: m.subject, template: m.template, caseId: m.caseId, content: m.content })));
+}
+
+const BATCH = 20;
+
+type Claimed = { id: string; to: string[]; subject: string; template: string; html: string | null; text: string | null; content: QueuedContent | null };
+
+/**
+ * Takes up to one batch of queued messages for this worker. SKIP LOCKED lets several server
+ * instances on one PostgreSQL server share the queue; a claim older than STUCK_QUEUED_MS was lost
+ * with its process (killed between claim and hand-over) and is taken again, so a message may then
+ * go out twice, which is better than a party never hearing of a step.
+ */
+async function claimBatch(now: Date): Promise<Claimed[]> {
+  const stale = new Date(now.getTime() - STUCK_QUEUED_MS);
+  const result = await getDb().execute<Record<string, unknown>>(sql`
+    update ${outgoingMail} set claimed_at = ${now.toISOString()}
+    where id in (
+      select id from ${outgoingMail}
+      where status = 'queued' and has_attachments = false and (html is not null or content is not null)
+        and (claimed_at is null or claimed_at < ${stale.toISOString()})
+      order by queue_order
+      limit ${BATCH}
+      for update skip locked
+    )
+    returning id, "to", subject, template, html, text, content, queue_order`);
+  // RETURNING follows the update's plan, not the subquery's order.
+  const rows = [...result.rows].sort((a, b) => Number(a.queue_order) - Number(b.queue_order));
+  return rows.map((r) => ({
+    id: r.id as string,
+    to: r.to as string[],
+    subject: r.subject as string,
+    template: r.template as string,
+    html: (r.html as string | null) ?? null,
+    text: (r.text as string | null) ?? null,
+    content: typeof r.content === 'string' ? (JSON.parse(r.content) as QueuedContent) : ((r.content as QueuedContent | null) ?? null),
+  }));
+}
+
+/**
+ * Renders and hands over every queued message, batch by batch, until none is left. A message is
+ * rendered once and its html kept, so a failed hand-over is retried as it was first written.
+ */
+export async function deliverQueuedMail(now: () => Date = () => new Date()): Promise<{ claimed: number; sent: number }> {
+  let claimed = 0;
+  let sent = 0;
+  const transport = pooledMailTransport();
+  try {
+    for (;;) {
+      const batch = await claimBatch(now());
+      claimed += batch.length;
+      for (const message of batch) {
+        let { html, text } = message;
+        if (html === null || text === null) {
+          ({ html, text } = await renderQueued(message.content!));
+          await getDb().update(outgoingMail).set({ html, text }).where(sql`${outgoingMail.id} = ${message.id}`);
+        }
+        const result = await handOver(message.id, { to: message.to, subject: message.subject, template: message.template, html, text }, transport);
+        if (result.status === 'sent') sent++;
+      }
+      if (batch.length < BATCH) return { claimed, sent };
+    }
+  } finally {
+    transport.close();
+  }
+}
+
+const globalForOutbox = globalThis as unknown as { __countersampleOutbox?: { running: Promise<void> | null; again: boolean } };
+
+/**
+ * Starts delivery in the background, or asks a running delivery to look again when it is done: one
+ * worker per process, so bursts of commits do not start a worker each. Returns that run.
+ */
+export function deliverQueuedSoon(): Promise<void> {
+  const state = (globalForOutbox.__countersampleOutbox ??= { running: null, again: false });
+  if (state.running) {
+    state.again = true;
+    return state.running;
+  }
+  state.running = (async () => {
+    do {
+      state.again = false;
+      try {
+        await deliverQueuedMail();
+      } catch (error) {
+        // The messages stay queued; the next commit or the scheduled job delivers them.
+        console.error('Mail delivery stopped:', error);
+        return;
+      }
+    } while (state.again);
+  })().finally(() => {
+    state.running = null;
+  });
+  return state.running;
+}
+
+/**
+ * Called after a commit that queued mail. The request does not wait for delivery, except where
+ * MAIL_DELIVERY=inline (the integration tests, which read the catcher right after the call).
+ */
+export async function mailAfterCommit(): Promise<void> {
+  const run = deliverQueuedSoon();
+  if (process.env.MAIL_DELIVERY === 'inline') await run;
+}
+
+/** Waits until no delivery is running in this process: for tests and for an orderly shutdown. */
+export async function mailSettled(): Promise<void> {
+  while (globalForOutbox.__countersampleOutbox?.running) await globalForOutbox.__countersampleOutbox.running;
+}
