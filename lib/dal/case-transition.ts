@@ -48,16 +48,22 @@ export async function runTransition<N extends TransitionName>(
   const spec = transitions[name];
   // Not an id at all names no case; checked here, because the database would refuse the comparison with an error.
   if (!z.uuid().safeParse(caseId).success) throw new AppError('not_found', 'That case was not found.');
-  const [visible] = await db.select({ id: disputeCase.id }).from(disputeCase).where(and(eq(disputeCase.id, caseId), caseVisibility(actor)));
-  if (!visible || !can(actor.role, 'case', 'read')) throw new AppError('not_found', 'That case was not found.');
-  if (!can(actor.role, 'case', spec.permission)) throw new AppError('forbidden', `Your role cannot ${spec.label.toLowerCase()}.`);
+  const allowed = can(actor.role, 'case', 'read') && can(actor.role, 'case', spec.permission);
   const parsed = transitionSchemas[name].safeParse(rawInput);
-  if (!parsed.success) throw invalidInput(parsed.error);
+  if (!allowed || !parsed.success) {
+    // Refusals keep their order (an outsider hears "not found" whatever it sent); the visibility
+    // query runs here only, because on the way to a change the locking select below checks it.
+    const [visible] = await db.select({ id: disputeCase.id }).from(disputeCase).where(and(eq(disputeCase.id, caseId), caseVisibility(actor)));
+    if (!visible || !can(actor.role, 'case', 'read')) throw new AppError('not_found', 'That case was not found.');
+    if (!allowed) throw new AppError('forbidden', `Your role cannot ${spec.label.toLowerCase()}.`);
+    throw invalidInput(parsed.error!);
+  }
   const input = parsed.data as TransitionInputs[N];
   const now = context.now ?? new Date();
 
   const { row, from } = await db.transaction(async (tx) => {
-    const [locked] = await tx.select().from(disputeCase).where(eq(disputeCase.id, caseId)).for('update');
+    const [locked] = await tx.select().from(disputeCase).where(and(eq(disputeCase.id, caseId), caseVisibility(actor))).for('update');
+    if (!locked) throw new AppError('not_found', 'That case was not found.');
     if (!holdsRoleOn(actor, locked)) throw new AppError('forbidden', 'Your organisation no longer holds this case: the board has sent the sample to another laboratory.');
     // A form or client that says which state it saw gets 409 when the case has moved on since,
     // even if the transition would still be allowed from the new state.

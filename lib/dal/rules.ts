@@ -20,8 +20,15 @@ export async function rulesInForce(db: DbOrTx, at: Date = new Date()): Promise<R
   return row ?? null;
 }
 
+// A published version is never edited (publishRulesVersion only adds), so a version read once can be
+// kept for the life of the process: every transition of a case asks for the same one.
+const versionsById = new Map<string, RulesVersion>();
+
 export async function rulesVersion(db: DbOrTx, id: string): Promise<RulesVersion | null> {
+  const known = versionsById.get(id);
+  if (known) return known;
   const [row] = await db.select().from(schemeRules).where(and(eq(schemeRules.id, id))).limit(1);
+  if (row) versionsById.set(id, row);
   return row ?? null;
 }
 

@@ -1,5 +1,5 @@
 import 'server-only';
-import { and, eq, inArray } from 'drizzle-orm';
+import { and, asc, inArray } from 'drizzle-orm';
 import type { DbOrTx } from '@/db/client';
 import { user } from '@/db/schema';
 import type { Audience } from '@/lib/cases/lifecycle';
@@ -23,10 +23,27 @@ function organisationFor(parties: CaseParties, audience: Audience): string | nul
 
 /** The addresses of the people of one party of a case. */
 export async function recipientsOf(db: DbOrTx, parties: CaseParties, audience: Audience): Promise<string[]> {
-  const organisationId = organisationFor(parties, audience);
-  if (!organisationId) return [];
-  const rows = await db.select({ email: user.email }).from(user).where(and(eq(user.organisationId, organisationId), inArray(user.role, rolesFor[audience])));
-  return rows.map((r) => r.email);
+  return (await recipientsByAudience(db, parties, [audience])).get(audience) ?? [];
+}
+
+/** The addresses of the people of several parties of a case, in one query. */
+async function recipientsByAudience(db: DbOrTx, parties: CaseParties, audiences: readonly Audience[]): Promise<Map<Audience, string[]>> {
+  const wanted = audiences.flatMap((audience) => {
+    const organisationId = organisationFor(parties, audience);
+    return organisationId ? [{ audience, organisationId }] : [];
+  });
+  const found = new Map<Audience, string[]>();
+  if (wanted.length === 0) return found;
+  const rows = await db
+    .select({ email: user.email, organisationId: user.organisationId, role: user.role })
+    .from(user)
+    .where(and(inArray(user.organisationId, [...new Set(wanted.map((w) => w.organisationId))]), inArray(user.role, [...new Set(wanted.flatMap((w) => rolesFor[w.audience]))])))
+    .orderBy(asc(user.email));
+  for (const { audience, organisationId } of wanted) {
+    const emails = rows.filter((r) => r.organisationId === organisationId && r.role !== null && rolesFor[audience].includes(r.role)).map((r) => r.email);
+    found.set(audience, emails);
+  }
+  return found;
 }
 
 export type CaseNotice = { template: string; subject: string; headline: string; lines: string[]; actionLabel?: string };
@@ -39,8 +56,9 @@ export type CaseNotice = { template: string; subject: string; headline: string; 
 export async function notifyCase(tx: DbOrTx, parties: CaseParties, audiences: readonly Audience[], notice: CaseNotice | ((audience: Audience) => CaseNotice)) {
   const url = `${env().BETTER_AUTH_URL}/cases/${parties.id}`;
   const messages: QueuedMessage[] = [];
+  const recipients = await recipientsByAudience(tx, parties, audiences);
   for (const audience of audiences) {
-    const to = await recipientsOf(tx, parties, audience);
+    const to = recipients.get(audience) ?? [];
     if (to.length === 0) continue;
     const n = typeof notice === 'function' ? notice(audience) : notice;
     messages.push({
@@ -63,8 +81,9 @@ export async function notifyCaseNote(
 ) {
   const url = `${env().BETTER_AUTH_URL}/cases/${parties.id}#notes`;
   const messages: QueuedMessage[] = [];
+  const recipients = await recipientsByAudience(tx, parties, audiences);
   for (const audience of audiences) {
-    const to = await recipientsOf(tx, parties, audience);
+    const to = recipients.get(audience) ?? [];
     if (to.length === 0) continue;
     messages.push({
       to,
