@@ -93,11 +93,23 @@ function readMix(cookies: Record<string, string>, review: string[], decided: str
   return mix;
 }
 
-async function checkMix(server: RunningServer, mix: LoadRequest[]): Promise<void> {
+/**
+ * Every request of the mix answers 200 before the load; then each is timed three times more on one
+ * connection, so the table says which kind of request the load's latency is made of.
+ */
+async function checkMix(server: RunningServer, mix: LoadRequest[]): Promise<Record<string, number>> {
+  const byLabel = new Map<string, number[]>();
   for (const request of mix) {
     const { status } = await timedGet(`${server.baseUrl}${request.path}`, request.headers);
     if (status !== 200) throw new Error(`${request.label} ${request.path} answered ${status} before the load`);
   }
+  for (let round = 0; round < 3; round++) {
+    for (const request of mix) {
+      const { ms } = await timedGet(`${server.baseUrl}${request.path}`, request.headers);
+      byLabel.set(request.label, [...(byLabel.get(request.label) ?? []), ms]);
+    }
+  }
+  return Object.fromEntries([...byLabel].map(([label, samples]) => [label, summarise(samples, 0).p50]));
 }
 
 async function loadWithMemory(server: RunningServer, mix: LoadRequest[]): Promise<LoadResult & { peakRssMb: number }> {
@@ -138,7 +150,9 @@ async function readPhase(mail: { smtpPort: number; httpPort: number }): Promise<
     }
 
     const mix = readMix(cookies, review, decided);
-    await checkMix(server, mix);
+    const alone = await checkMix(server, mix);
+    details.mixAlone = alone;
+    log(`each kind alone, p50 on one connection: ${Object.entries(alone).map(([label, p50]) => `${label} ${ms(p50)}`).join(', ')}`);
     log(`mixed read load: 20 clients for ${scale.loadSeconds} s over ${mix.length} requests (${[...new Set(mix.map((m) => m.label))].join(', ')})`);
     const load = await loadWithMemory(server, mix);
     details.loadPglite = load;
@@ -260,7 +274,9 @@ async function postgresPhase(mail: { smtpPort: number; httpPort: number }, pglit
     const decided = await caseIds(server, cookies.arbiter, 'status=decided&pageSize=20');
     const list = await sequentialLatency(() => `${server.baseUrl}/api/v1/cases?${LIST_QUERY}`, { cookie: cookies.arbiter }, { warmup: scale.warmup, requests: scale.listRequests });
     const mix = readMix(cookies, review, decided);
-    await checkMix(server, mix);
+    const alone = await checkMix(server, mix);
+    details.mixAlonePostgres = alone;
+    log(`each kind alone, p50 on one connection: ${Object.entries(alone).map(([label, p50]) => `${label} ${ms(p50)}`).join(', ')}`);
     const load = await loadWithMemory(server, mix);
     details.listPostgres = list;
     details.loadPostgres = load;

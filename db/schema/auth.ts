@@ -1,3 +1,4 @@
+import { relations } from 'drizzle-orm';
 import { boolean, index, integer, bigint, pgTable, text, timestamp, uuid } from 'drizzle-orm/pg-core';
 import { organisation } from './organisations';
 
@@ -84,3 +85,8 @@ export const rateLimit = pgTable('rate_limit', {
   count: integer('count').notNull(),
   lastRequest: bigint('last_request', { mode: 'number' }).notNull(),
 });
+
+// Relations, so better-auth reads a session with its user in one query (its `experimental.joins`).
+export const userRelations = relations(user, ({ many }) => ({ sessions: many(session), accounts: many(account) }));
+export const sessionRelations = relations(session, ({ one }) => ({ user: one(user, { fields: [session.userId], references: [user.id] }) }));
+export const accountRelations = relations(account, ({ one }) => ({ user: one(user, { fields: [account.userId], references: [user.id] }) }));

@@ -30,8 +30,12 @@ function createAuth() {
         account: schema.account,
         verification: schema.verification,
         rateLimit: schema.rateLimit,
+        userRelations: schema.userRelations,
+        sessionRelations: schema.sessionRelations,
+        accountRelations: schema.accountRelations,
       },
     }),
+
     emailAndPassword: {
       enabled: true,
       // No open sign-up: people join through an administrator's invitation.
@@ -69,6 +73,9 @@ function createAuth() {
       useSecureCookies: settings.BETTER_AUTH_URL.startsWith('https://'),
       ipAddress: { ipAddressHeaders: ['x-forwarded-for', 'x-real-ip'] },
       defaultCookieAttributes: { sameSite: 'lax', httpOnly: true },
+      // A session is read with its user in one query, on every request that checks who is asking
+      // (the relations in db/schema/auth.ts make it possible).
+      database: { joins: true },
     },
     hooks: {
       before: createAuthMiddleware(async (ctx) => {

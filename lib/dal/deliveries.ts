@@ -26,6 +26,12 @@ function deliveryVisibility(actor: Actor): SQL {
 }
 
 /** Deliveries with their current intake result, the contest deadline and any live dispute. */
+/**
+ * A plant sees every delivery of the year; counting them all on each page view was most of the
+ * page's time. The count stops here, and the list says "more than" this many.
+ */
+export const DELIVERY_COUNT_CAP = 5_000;
+
 export async function listDeliveries(db: DbOrTx, actor: Actor, query: DeliveryListQuery, now = new Date(), only?: { deliveryId: string }) {
   assertCan(actor, 'delivery', 'list');
   const filters: SQL[] = [deliveryVisibility(actor), isNull(intakeResult.supersededAt)];
@@ -69,9 +75,15 @@ export async function listDeliveries(db: DbOrTx, actor: Actor, query: DeliveryLi
       .offset((query.page - 1) * query.pageSize),
     db
       .select({ total: count() })
-      .from(delivery)
-      .innerJoin(intakeResult, eq(intakeResult.deliveryId, delivery.id))
-      .where(where),
+      .from(
+        db
+          .select({ one: sql`1`.as('one') })
+          .from(delivery)
+          .innerJoin(intakeResult, eq(intakeResult.deliveryId, delivery.id))
+          .where(where)
+          .limit(DELIVERY_COUNT_CAP + 1)
+          .as('counted'),
+      ),
   ]);
   return {
     items: rows.map((row) => {
@@ -82,7 +94,8 @@ export async function listDeliveries(db: DbOrTx, actor: Actor, query: DeliveryLi
         contestable: row.verdict !== 'accepted' && !row.caseId && deadline !== null && deadline.getTime() > now.getTime(),
       };
     }),
-    total,
+    total: Math.min(total, DELIVERY_COUNT_CAP),
+    moreThanTotal: total > DELIVERY_COUNT_CAP,
     page: query.page,
     pageSize: query.pageSize,
   };

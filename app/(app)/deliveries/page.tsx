@@ -64,7 +64,7 @@ export default async function DeliveriesPage({ searchParams }: { searchParams: P
         </Card>
         <Card id="deliveries" title={chosenFarm ? `Deliveries of ${chosenFarm.name}` : 'Deliveries'}>
           <DeliveryTable items={result.items} showContest={actor.role === 'supplier'} empty={{ title: 'No delivery matches.' }} />
-          <Pager page={result.page} pageSize={result.pageSize} total={result.total} basePath="/deliveries" params={{ verdict: raw.verdict, farm: chosenFarm?.id }} />
+          <Pager page={result.page} pageSize={result.pageSize} total={result.total} moreThanTotal={result.moreThanTotal} basePath="/deliveries" params={{ verdict: raw.verdict, farm: chosenFarm?.id }} />
         </Card>
       </div>
     </>
