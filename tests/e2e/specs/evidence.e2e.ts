@@ -106,6 +106,8 @@ describe('evidence on the case file', () => {
     expect(await sheet.innerText()).toContain('Eskmere Regional Dairy Laboratory');
     const preview = photo.getByRole('img', { name: 'Preview of seal-at-receipt.jpg' });
     await preview.waitFor();
+    // Previews load lazily, as the reader scrolls to the gallery; the review above it is long.
+    await preview.scrollIntoViewIfNeeded();
     await page.waitForFunction((name) => {
       const img = document.querySelector<HTMLImageElement>(`img[alt="Preview of ${name}"]`);
       return !!img && img.complete && img.naturalWidth > 0;
