@@ -35,7 +35,6 @@ function createAuth() {
         accountRelations: schema.accountRelations,
       },
     }),
-
     emailAndPassword: {
       enabled: true,
       // No open sign-up: people join through an administrator's invitation.

@@ -25,13 +25,13 @@ function deliveryVisibility(actor: Actor): SQL {
   return sql`false`;
 }
 
-/** Deliveries with their current intake result, the contest deadline and any live dispute. */
 /**
  * A plant sees every delivery of the year; counting them all on each page view was most of the
  * page's time. The count stops here, and the list says "more than" this many.
  */
 export const DELIVERY_COUNT_CAP = 5_000;
 
+/** Deliveries with their current intake result, the contest deadline and any live dispute. */
 export async function listDeliveries(db: DbOrTx, actor: Actor, query: DeliveryListQuery, now = new Date(), only?: { deliveryId: string }) {
   assertCan(actor, 'delivery', 'list');
   const filters: SQL[] = [deliveryVisibility(actor), isNull(intakeResult.supersededAt)];

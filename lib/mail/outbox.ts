@@ -1,5 +1,5 @@
 import 'server-only';
-import { sql } from 'drizzle-orm';
+import { eq, sql } from 'drizzle-orm';
 import type { DbOrTx } from '@/db/client';
 import { getDb } from '@/db/client';
 import { outgoingMail } from '@/db/schema';
@@ -72,7 +72,7 @@ export async function deliverQueuedMail(now: () => Date = () => new Date()): Pro
         let { html, text } = message;
         if (html === null || text === null) {
           ({ html, text } = await renderQueued(message.content!));
-          await getDb().update(outgoingMail).set({ html, text }).where(sql`${outgoingMail.id} = ${message.id}`);
+          await getDb().update(outgoingMail).set({ html, text }).where(eq(outgoingMail.id, message.id));
         }
         const result = await handOver(message.id, { to: message.to, subject: message.subject, template: message.template, html, text }, transport);
         if (result.status === 'sent') sent++;
