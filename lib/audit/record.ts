@@ -1,12 +1,14 @@
 import { desc, sql } from 'drizzle-orm';
-import type { DbOrTx } from '@/db/client';
+import { databaseKind, type DbOrTx } from '@/db/client';
 import { auditEvent } from '@/db/schema';
 import { auditEventSchema, type AuditEventInput } from './events';
 import { GENESIS_HASH, hashAuditContent } from './chain';
 
 export type AuditContext = { actorUserId: string | null; actorOrganisationId: string | null; origin?: string | null; at?: Date };
 
-// One chain for the whole database: writers queue on this advisory lock, so each row links to the one before it.
+// One chain for the whole database: on a PostgreSQL server, writers queue on this advisory lock, so
+// each row links to the one before it. The embedded database runs one transaction at a time for its
+// only process (the folder's lock file refuses a second), so there the order is serial already.
 const AUDIT_CHAIN_LOCK = 0x43534155; // "CSAU"
 
 /**
@@ -32,7 +34,7 @@ export function chainedRow(context: AuditContext & { at: Date }, input: AuditEve
 
 /** Appends one event to the chain. Call it inside the transaction of the change it records. */
 export async function recordAudit(tx: DbOrTx, context: AuditContext, input: AuditEventInput): Promise<void> {
-  await tx.execute(sql`select pg_advisory_xact_lock(${AUDIT_CHAIN_LOCK})`);
+  if (databaseKind() === 'postgres') await tx.execute(sql`select pg_advisory_xact_lock(${AUDIT_CHAIN_LOCK})`);
   const [last] = await tx.select({ hash: auditEvent.hash }).from(auditEvent).orderBy(desc(auditEvent.seq)).limit(1);
   await tx.insert(auditEvent).values(chainedRow({ ...context, at: context.at ?? new Date() }, input, last?.hash ?? GENESIS_HASH));
 }

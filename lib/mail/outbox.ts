@@ -1,12 +1,12 @@
 import 'server-only';
-import { eq, sql } from 'drizzle-orm';
+import { sql } from 'drizzle-orm';
 import type { DbOrTx } from '@/db/client';
 import { getDb } from '@/db/client';
 import { outgoingMail } from '@/db/schema';
 import type { QueuedContent } from './queued-content';
-import { renderQueued } from './render-queued';
-import { handOver, STUCK_QUEUED_MS } from './send';
-import { pooledMailTransport } from './transport';
+import type { BatchMessage, BatchOutcome } from './deliver-batch';
+import { deliverBatchOffThread } from './delivery-thread';
+import { STUCK_QUEUED_MS } from './send';
 
 export type QueuedMessage = { to: string[]; subject: string; template: string; caseId?: string; content: QueuedContent };
 
@@ -22,15 +22,13 @@ export async function queueMail(tx: DbOrTx, messages: QueuedMessage[]): Promise<
 
 const BATCH = 20;
 
-type Claimed = { id: string; to: string[]; subject: string; template: string; html: string | null; text: string | null; content: QueuedContent | null };
-
 /**
  * Takes up to one batch of queued messages for this worker. SKIP LOCKED lets several server
  * instances on one PostgreSQL server share the queue; a claim older than STUCK_QUEUED_MS was lost
  * with its process (killed between claim and hand-over) and is taken again, so a message may then
  * go out twice, which is better than a party never hearing of a step.
  */
-async function claimBatch(now: Date): Promise<Claimed[]> {
+async function claimBatch(now: Date): Promise<BatchMessage[]> {
   const stale = new Date(now.getTime() - STUCK_QUEUED_MS);
   const result = await getDb().execute<Record<string, unknown>>(sql`
     update ${outgoingMail} set claimed_at = ${now.toISOString()}
@@ -57,30 +55,41 @@ async function claimBatch(now: Date): Promise<Claimed[]> {
 }
 
 /**
- * Renders and hands over every queued message, batch by batch, until none is left. A message is
- * rendered once and its html kept, so a failed hand-over is retried as it was first written.
+ * Records what became of a batch in one statement. The rendered parts are kept with the outcome, so a
+ * failed message is retried as it was first written.
+ */
+async function recordOutcomes(outcomes: BatchOutcome[]): Promise<void> {
+  if (outcomes.length === 0) return;
+  const rows = outcomes.map((o) =>
+    o.status === 'sent'
+      ? { id: o.id, status: o.status, html: o.html, text: o.text, sent_at: o.sentAt, message_id: o.messageId, error: null }
+      : { id: o.id, status: o.status, html: o.html, text: o.text, sent_at: null, message_id: null, error: o.error },
+  );
+  await getDb().execute(sql`
+    update ${outgoingMail} as m set
+      status = r.status, html = r.html, text = r.text, attempts = m.attempts + 1,
+      sent_at = coalesce(r.sent_at, m.sent_at), message_id = coalesce(r.message_id, m.message_id), last_error = coalesce(r.error, m.last_error)
+    from jsonb_to_recordset(${JSON.stringify(rows)}::jsonb) as r(id uuid, status text, html text, text text, sent_at timestamptz, message_id text, error text)
+    where m.id = r.id`);
+  for (const o of outcomes) if (o.status === 'failed') console.error(`Mail ${o.id} (${o.template}) could not be handed to SMTP: ${o.error}`);
+}
+
+/**
+ * Renders and hands over every queued message, batch by batch, until none is left. Rendering and
+ * SMTP run on the mail thread; this thread only claims a batch and records its outcomes, two
+ * statements for up to BATCH messages.
  */
 export async function deliverQueuedMail(now: () => Date = () => new Date()): Promise<{ claimed: number; sent: number }> {
   let claimed = 0;
   let sent = 0;
-  const transport = pooledMailTransport();
-  try {
-    for (;;) {
-      const batch = await claimBatch(now());
-      claimed += batch.length;
-      for (const message of batch) {
-        let { html, text } = message;
-        if (html === null || text === null) {
-          ({ html, text } = await renderQueued(message.content!));
-          await getDb().update(outgoingMail).set({ html, text }).where(eq(outgoingMail.id, message.id));
-        }
-        const result = await handOver(message.id, { to: message.to, subject: message.subject, template: message.template, html, text }, transport);
-        if (result.status === 'sent') sent++;
-      }
-      if (batch.length < BATCH) return { claimed, sent };
-    }
-  } finally {
-    transport.close();
+  for (;;) {
+    const batch = await claimBatch(now());
+    if (batch.length === 0) return { claimed, sent };
+    claimed += batch.length;
+    const outcomes = await deliverBatchOffThread(batch);
+    await recordOutcomes(outcomes);
+    sent += outcomes.filter((o) => o.status === 'sent').length;
+    if (batch.length < BATCH) return { claimed, sent };
   }
 }
 

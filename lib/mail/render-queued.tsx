@@ -1,4 +1,3 @@
-import 'server-only';
 import { render, toPlainText } from '@react-email/components';
 import type { QueuedContent } from './queued-content';
 import { CaseNoticeMail } from './templates/case-notice';

@@ -11,18 +11,6 @@ export function mailTransport(): Transporter {
   return globalForMail.__countersampleMailTransport;
 }
 
-/**
- * A transport for one delivery run: one SMTP connection carries the whole batch, instead of one
- * connection per message (relays often hold back their greeting, here and in production). The
- * caller closes it when the run ends, so no idle connection outlives the run.
- */
-export function pooledMailTransport(): Transporter {
-  const url = new URL(env().SMTP_URL);
-  url.searchParams.set('pool', 'true');
-  url.searchParams.set('maxConnections', '1');
-  return nodemailer.createTransport(url.toString(), { from: env().MAIL_FROM });
-}
-
 export function resetMailTransport(): void {
   globalForMail.__countersampleMailTransport?.close();
   globalForMail.__countersampleMailTransport = undefined;
