@@ -7,6 +7,7 @@ import os from 'node:os';
 import path from 'node:path';
 import { demoUsers } from '@/db/seed/demo-names';
 import { assessRate } from './assess-rate';
+import { startMailSink, type MailSink } from './mail-sink';
 import { measurePageLoad, type PageLoadFigures } from './browser';
 import { runLoad, sampleRss, sequentialLatency, summarise, timedGet, type Latency, type LoadRequest, type LoadResult } from './measure';
 import { BENCH_DIST_DIR, buildApp, hasBuild, signIn, startServer, type RunningServer } from './server';
@@ -177,7 +178,7 @@ async function directPhase(list: Latency): Promise<void> {
   row('list API p95 ÷ direct p95', `${ratio.toFixed(2)}×`, '≤ 3×', ratio <= 3);
 }
 
-async function writePhase(mail: { smtpPort: number; httpPort: number; messages: unknown[] }): Promise<void> {
+async function writePhase(mail: MailSink): Promise<void> {
   const copy = path.join(root, 'data', 'scale', 'pglite-writes');
   fs.rmSync(copy, { recursive: true, force: true });
   fs.rmSync(`${copy}.lock`, { force: true });
@@ -198,7 +199,7 @@ async function writePhase(mail: { smtpPort: number; httpPort: number; messages: 
       ];
       // Interleaved, so both kinds of write contend at once as they would in a working day.
       jobs.sort((a, b) => a.id.localeCompare(b.id));
-      const caughtBefore = mail.messages.length;
+      const caughtBefore = await mail.received();
       const samples: number[] = [];
       const firstErrors: string[] = [];
       let next = 0;
@@ -226,13 +227,14 @@ async function writePhase(mail: { smtpPort: number; httpPort: number; messages: 
       const seconds = (ended - began) / 1000;
       figures = { done: jobs.length, errors, seconds, latency: summarise(samples, errors), firstErrors };
       // The notices go out after the answers, from the server's delivery worker: wait until the
-      // catcher has had nothing new for three seconds, and say how long delivery ran past the burst.
+      // sink has had nothing new for three seconds, and say how long delivery ran past the burst.
       let count = -1;
       let lastChange = performance.now();
       while (performance.now() - lastChange < 3000 && performance.now() - ended < 180_000) {
         await new Promise((r) => setTimeout(r, 250));
-        if (mail.messages.length !== count) {
-          count = mail.messages.length;
+        const received = await mail.received();
+        if (received !== count) {
+          count = received;
           lastChange = performance.now();
         }
       }
@@ -322,15 +324,14 @@ async function main(): Promise<number> {
   details.assess = assessFigures;
   row('assess proposals/s, one core', assessFigures.perSecond.toFixed(0), '≥ 50000/s', assessFigures.perSecond >= 50_000);
 
-  const { startMailCatcher } = await import('@/lib/mail/catcher');
-  const catcher = await startMailCatcher({ smtpPort: 0, httpPort: 0 });
+  const sink = await startMailSink();
   try {
-    const { load, list } = await readPhase(catcher);
+    const { load, list } = await readPhase(sink);
     await directPhase(list);
-    await writePhase(catcher);
-    await postgresPhase(catcher, load);
+    await writePhase(sink);
+    await postgresPhase(sink, load);
   } finally {
-    await catcher.close();
+    await sink.close();
   }
 
   printTable();

@@ -5,10 +5,10 @@ import { renderQueued } from './render-queued';
 /** A claimed message as the hand-over needs it: rendered already, or the content to render. */
 export type BatchMessage = { id: string; to: string[]; subject: string; template: string; html: string | null; text: string | null; content: QueuedContent | null };
 
-/** What became of one message: its rendered parts, kept for a retry, and the relay's answer. */
-export type BatchOutcome = { id: string; template: string; html: string; text: string } & (
+/** What became of one message: the relay's answer, and for a failed one its rendered parts, kept for the retry. */
+export type BatchOutcome = { id: string; template: string } & (
   | { status: 'sent'; sentAt: string; messageId: string }
-  | { status: 'failed'; error: string }
+  | { status: 'failed'; error: string; html: string; text: string }
 );
 
 export type RelaySettings = { smtpUrl: string; from: string };
@@ -36,7 +36,7 @@ export async function deliverBatch(messages: BatchMessage[], relay: RelaySetting
           ({ html, text } = await renderQueued(message.content));
         }
         const info = await transport.sendMail({ to: message.to, subject: message.subject, html, text, headers: { 'X-Countersample-Template': message.template } });
-        outcomes.push({ id: message.id, template: message.template, html, text, status: 'sent', sentAt: new Date().toISOString(), messageId: String(info.messageId) });
+        outcomes.push({ id: message.id, template: message.template, status: 'sent', sentAt: new Date().toISOString(), messageId: String(info.messageId) });
       } catch (error) {
         const reason = error instanceof Error ? error.message : String(error);
         outcomes.push({ id: message.id, template: message.template, html, text, status: 'failed', error: reason.slice(0, 500) });

@@ -20,7 +20,7 @@ export async function queueMail(tx: DbOrTx, messages: QueuedMessage[]): Promise<
   await tx.insert(outgoingMail).values(messages.map((m) => ({ to: m.to, subject: m.subject, template: m.template, caseId: m.caseId, content: m.content })));
 }
 
-const BATCH = 20;
+const BATCH = 50;
 
 /**
  * Takes up to one batch of queued messages for this worker. SKIP LOCKED lets several server
@@ -55,19 +55,20 @@ async function claimBatch(now: Date): Promise<BatchMessage[]> {
 }
 
 /**
- * Records what became of a batch in one statement. The rendered parts are kept with the outcome, so a
- * failed message is retried as it was first written.
+ * Records what became of a batch in one statement. A failed message keeps its rendered parts, so it
+ * is retried as it was first written; a sent one keeps what it said as its content, and storing its
+ * html as well would cost the embedded database more than all the rest of the delivery.
  */
 async function recordOutcomes(outcomes: BatchOutcome[]): Promise<void> {
   if (outcomes.length === 0) return;
   const rows = outcomes.map((o) =>
     o.status === 'sent'
-      ? { id: o.id, status: o.status, html: o.html, text: o.text, sent_at: o.sentAt, message_id: o.messageId, error: null }
+      ? { id: o.id, status: o.status, html: null, text: null, sent_at: o.sentAt, message_id: o.messageId, error: null }
       : { id: o.id, status: o.status, html: o.html, text: o.text, sent_at: null, message_id: null, error: o.error },
   );
   await getDb().execute(sql`
     update ${outgoingMail} as m set
-      status = r.status, html = r.html, text = r.text, attempts = m.attempts + 1,
+      status = r.status, html = coalesce(r.html, m.html), text = coalesce(r.text, m.text), attempts = m.attempts + 1,
       sent_at = coalesce(r.sent_at, m.sent_at), message_id = coalesce(r.message_id, m.message_id), last_error = coalesce(r.error, m.last_error)
     from jsonb_to_recordset(${JSON.stringify(rows)}::jsonb) as r(id uuid, status text, html text, text text, sent_at timestamptz, message_id text, error text)
     where m.id = r.id`);
@@ -93,6 +94,10 @@ export async function deliverQueuedMail(now: () => Date = () => new Date()): Pro
   }
 }
 
+// Commits come in bursts: a moment's wait before claiming lets one batch carry the notices of many
+// commits, so the claim and the record of outcomes run once for them all rather than for each.
+const COLLECT_MS = 200;
+
 const globalForOutbox = globalThis as unknown as { __countersampleOutbox?: { running: Promise<void> | null; again: boolean } };
 
 /**
@@ -109,6 +114,7 @@ export function deliverQueuedSoon(): Promise<void> {
     do {
       state.again = false;
       try {
+        if (process.env.MAIL_DELIVERY !== 'inline') await new Promise((resolve) => setTimeout(resolve, COLLECT_MS));
         await deliverQueuedMail();
       } catch (error) {
         // The messages stay queued; the next commit or the scheduled job delivers them.

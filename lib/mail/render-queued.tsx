@@ -1,5 +1,5 @@
-import { render, toPlainText } from '@react-email/components';
 import type { QueuedContent } from './queued-content';
+import { renderMail } from './render-mail';
 import { CaseNoticeMail } from './templates/case-notice';
 import { NotePostedMail } from './templates/note-posted';
 
@@ -12,8 +12,7 @@ function element(content: QueuedContent) {
   }
 }
 
-/** The html and text of a queued message; the text is derived from the html, as for every mail. */
-export async function renderQueued(content: QueuedContent): Promise<{ html: string; text: string }> {
-  const html = await render(element(content));
-  return { html, text: toPlainText(html) };
+/** The html and text of a queued message. */
+export function renderQueued(content: QueuedContent): Promise<{ html: string; text: string }> {
+  return renderMail(element(content));
 }

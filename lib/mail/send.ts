@@ -1,10 +1,10 @@
 import 'server-only';
 import type { ReactElement } from 'react';
-import { render, toPlainText } from '@react-email/components';
 import { and, asc, eq, isNotNull, lt, sql } from 'drizzle-orm';
 import { getDb } from '@/db/client';
 import { outgoingMail } from '@/db/schema';
 import type { Transporter } from 'nodemailer';
+import { renderMail } from './render-mail';
 import { mailTransport } from './transport';
 
 export type MailAttachment = { filename: string; content: Buffer; contentType: string };
@@ -26,9 +26,7 @@ export type OutgoingMessage = {
  */
 export async function sendMail(message: OutgoingMessage): Promise<{ id: string; status: 'sent' | 'failed' }> {
   const db = getDb();
-  // The text part is derived from the rendered HTML, as the plain-text render would do, without rendering twice.
-  const html = await render(message.body);
-  const text = toPlainText(html);
+  const { html, text } = await renderMail(message.body);
   const [row] = await db
     .insert(outgoingMail)
     // Claimed by this call from the start, so the delivery worker leaves it alone unless this process dies in the hand-over.

@@ -37,9 +37,9 @@ describe('deliverBatch', () => {
     const outcomes = await deliverBatch([notice('a', 'The sample is on its way'), prerendered], { smtpUrl: `smtp://127.0.0.1:${catcher.smtpPort}`, from });
 
     expect(outcomes.map((o) => [o.id, o.status])).toEqual([['a', 'sent'], ['b', 'sent']]);
-    expect(outcomes[0].html).toContain('The sample is on its way');
-    expect(outcomes[0].text).toContain('The sample is on its way');
-    expect(outcomes[1].html).toBe('<p>Kept as written</p>');
+    expect(catcher.messages[0].html).toContain('The sample is on its way');
+    expect(catcher.messages[0].text).toContain('The sample is on its way');
+    expect(catcher.messages[1].html).toContain('<p>Kept as written</p>');
     expect(catcher.messages.map((m) => [m.subject, m.template, m.to])).toEqual([
       ['CS-2026-0007: The sample is on its way', 'case-dispatched', ['desk@plant.test']],
       ['CS-2026-0007: kept as written', 'note-posted', ['board@board.test']],
@@ -60,9 +60,9 @@ describe('deliverBatch', () => {
   it('reports every message as failed when the relay cannot be reached, with its rendered parts kept for the retry', async () => {
     const outcomes = await deliverBatch([notice('a', 'The sample was received'), notice('b', 'The case was withdrawn')], { smtpUrl: `smtp://127.0.0.1:${await closedPort()}`, from });
 
-    expect(outcomes.map((o) => o.status)).toEqual(['failed', 'failed']);
-    expect(outcomes.every((o) => o.status === 'failed' && /ECONNREFUSED/.test(o.error))).toBe(true);
-    expect(outcomes[0].html).toContain('The sample was received');
-    expect(outcomes[1].text).toContain('The case was withdrawn');
+    const failed = outcomes.map((o) => (o.status === 'failed' ? o : null));
+    expect(failed.every((o) => o !== null && /ECONNREFUSED/.test(o.error))).toBe(true);
+    expect(failed[0]!.html).toContain('The sample was received');
+    expect(failed[1]!.text).toContain('The case was withdrawn');
   });
 });
