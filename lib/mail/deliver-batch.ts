@@ -5,10 +5,13 @@ import { renderQueued } from './render-queued';
 /** A claimed message as the hand-over needs it: rendered already, or the content to render. */
 export type BatchMessage = { id: string; to: string[]; subject: string; template: string; html: string | null; text: string | null; content: QueuedContent | null };
 
-/** What became of one message: the relay's answer, and for a failed one its rendered parts, kept for the retry. */
+/**
+ * What became of one message: the relay's answer, and for a failed one its rendered parts, kept for
+ * the retry (null when it could not be rendered, so the retry never sends an empty message).
+ */
 export type BatchOutcome = { id: string; template: string } & (
   | { status: 'sent'; sentAt: string; messageId: string }
-  | { status: 'failed'; error: string; html: string; text: string }
+  | { status: 'failed'; error: string; html: string | null; text: string | null }
 );
 
 export type RelaySettings = { smtpUrl: string; from: string };
@@ -28,18 +31,17 @@ export async function deliverBatch(messages: BatchMessage[], relay: RelaySetting
   const outcomes: BatchOutcome[] = [];
   try {
     for (const message of messages) {
-      let html = message.html ?? '';
-      let text = message.text ?? '';
+      let rendered = message.html !== null && message.text !== null ? { html: message.html, text: message.text } : null;
       try {
-        if (message.html === null || message.text === null) {
+        if (!rendered) {
           if (!message.content) throw new Error('The message has neither rendered parts nor content to render.');
-          ({ html, text } = await renderQueued(message.content));
+          rendered = await renderQueued(message.content);
         }
-        const info = await transport.sendMail({ to: message.to, subject: message.subject, html, text, headers: { 'X-Countersample-Template': message.template } });
+        const info = await transport.sendMail({ to: message.to, subject: message.subject, ...rendered, headers: { 'X-Countersample-Template': message.template } });
         outcomes.push({ id: message.id, template: message.template, status: 'sent', sentAt: new Date().toISOString(), messageId: String(info.messageId) });
       } catch (error) {
         const reason = error instanceof Error ? error.message : String(error);
-        outcomes.push({ id: message.id, template: message.template, html, text, status: 'failed', error: reason.slice(0, 500) });
+        outcomes.push({ id: message.id, template: message.template, html: rendered?.html ?? null, text: rendered?.text ?? null, status: 'failed', error: reason.slice(0, 500) });
       }
     }
   } finally {

@@ -53,6 +53,8 @@ describe('deliverBatch', () => {
     const outcomes = await deliverBatch([empty, notice('next', 'The retest is in')], { smtpUrl: `smtp://127.0.0.1:${catcher.smtpPort}`, from });
 
     expect(outcomes[0]).toMatchObject({ id: 'empty', status: 'failed', error: expect.stringContaining('neither rendered parts nor content') });
+    // Nothing rendered, nothing kept: the retry of failed mail skips a message without html.
+    expect(outcomes[0]).toMatchObject({ html: null, text: null });
     expect(outcomes[1]).toMatchObject({ id: 'next', status: 'sent' });
     expect(catcher.messages.map((m) => m.subject)).toEqual(['CS-2026-0007: The retest is in']);
   });
