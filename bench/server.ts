@@ -75,7 +75,9 @@ export async function startServer(options: { database: { pgliteDir: string } | {
     env.PGLITE_DIR = options.database.pgliteDir;
   }
   const out = fs.openSync(options.logFile, 'a');
-  const child = spawn(process.execPath, [nextBin(), 'start', '-p', String(port)], { stdio: ['ignore', out, out], env });
+  // BENCH_SERVER_NODE_ARGS passes flags Node refuses in NODE_OPTIONS, such as --cpu-prof, to the server alone.
+  const nodeArgs = (process.env.BENCH_SERVER_NODE_ARGS ?? '').split(' ').filter(Boolean);
+  const child = spawn(process.execPath, [...nodeArgs, nextBin(), 'start', '-p', String(port)], { stdio: ['ignore', out, out], env });
   fs.closeSync(out);
   const stop = () =>
     new Promise<void>((resolve) => {

@@ -5,6 +5,8 @@ import { drizzle as drizzlePglite, type PgliteDatabase } from 'drizzle-orm/pglit
 import { drizzle as drizzlePg } from 'drizzle-orm/node-postgres';
 import pg from 'pg';
 import * as schema from './schema';
+import { DrizzlePGlite } from './drizzle-pglite';
+import { RemotePGlite } from './thread/pglite-remote';
 import { env } from '@/lib/env';
 
 /** The one database type the app codes against; PGlite and node-postgres expose the same query API. */
@@ -71,6 +73,15 @@ function isAlive(pid: number): boolean {
   }
 }
 
+/**
+ * Inside the Next.js server the embedded database runs on a thread of its own (DB_THREAD=off keeps
+ * it on the request thread). Scripts and tests run the TypeScript sources, whose thread entry only
+ * the server's bundler builds, so they open it in their own thread.
+ */
+function threadWanted(): boolean {
+  return process.env.NEXT_RUNTIME === 'nodejs' && process.env.DB_THREAD !== 'off';
+}
+
 function open(): Handle {
   if (process.env.NEXT_PHASE === 'phase-production-build') {
     throw new Error('The database was touched during `next build`; routes that read it must be dynamic.');
@@ -85,8 +96,8 @@ function open(): Handle {
   const inMemory = dataDir.startsWith('memory://');
   const release = inMemory ? () => {} : takeLock(dataDir);
   if (!inMemory) fs.mkdirSync(dataDir, { recursive: true });
-  const client = new PGlite(inMemory ? undefined : dataDir);
-  const db = drizzlePglite(client, { schema });
+  const client = !inMemory && threadWanted() ? new RemotePGlite(dataDir) : new DrizzlePGlite(inMemory ? undefined : dataDir);
+  const db = drizzlePglite({ client: client as PGlite, schema });
   return {
     db,
     kind: 'pglite',

@@ -1,6 +1,12 @@
 import { PGlite } from '@electric-sql/pglite';
 import { takeLock } from '@/db/client';
 
+/** What a snapshot needs of the client: PGlite's own, or the server's one to the database thread. */
+export type OpenDatabase = {
+  transaction<T>(callback: (tx: { exec(sql: string): Promise<unknown> }) => Promise<T>): Promise<T>;
+  dumpDataDir(compression: 'none'): Promise<Blob>;
+};
+
 /**
  * A physical snapshot of an open PGlite database, as PGlite's own tarball of its data folder.
  * Every statement, in or out of a transaction, waits for PGlite's transaction lock, and the dump
@@ -8,7 +14,7 @@ import { takeLock } from '@/db/client';
  * done in the files we read. The checkpoint first writes every committed page, so a restore opens
  * without replaying the log.
  */
-export async function dumpOpenDatabase(client: PGlite): Promise<Buffer> {
+export async function dumpOpenDatabase(client: OpenDatabase): Promise<Buffer> {
   const blob = await client.transaction(async (tx) => {
     await tx.exec('checkpoint');
     return client.dumpDataDir('none');
