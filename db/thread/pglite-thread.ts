@@ -11,7 +11,6 @@ const opened = database.waitReady.then(() => database);
 
 type OpenTransaction = { tx: Transaction; finish: (commit: boolean) => void; done: Promise<void> };
 const transactions = new Map<number, OpenTransaction>();
-let nextTransaction = 1;
 
 function asThreadError(error: unknown): ThreadError {
   if (!(error instanceof Error)) return { name: 'Error', message: String(error), fields: {} };
@@ -20,36 +19,47 @@ function asThreadError(error: unknown): ThreadError {
   return { name: error.name, message: error.message, fields };
 }
 
-function target(db: PGlite, tx: number | null): PGlite | Transaction {
-  if (tx === null) return db;
-  const open = transactions.get(tx);
+const starting = new Map<number, Promise<OpenTransaction>>();
+
+async function openTransaction(tx: number): Promise<OpenTransaction> {
+  const open = transactions.get(tx) ?? (await starting.get(tx));
   if (!open) throw new Error(`Transaction ${tx} is not open on the database thread.`);
-  return open.tx;
+  return open;
+}
+
+async function target(db: PGlite, tx: number | null): Promise<PGlite | Transaction> {
+  return tx === null ? db : (await openTransaction(tx)).tx;
 }
 
 /**
  * Opens a transaction that stays open across messages: PGlite runs the callback under its
- * transaction lock, and the callback waits until the request thread says commit or rollback.
+ * transaction lock, and the callback waits until the request thread says commit or rollback. The
+ * request thread numbers it and sends its first statement without waiting for the start, which
+ * waits here instead.
  */
-function begin(db: PGlite): Promise<number> {
-  return new Promise((started, failedToStart) => {
-    const id = nextTransaction++;
-    const done = db
+function begin(db: PGlite, id: number): Promise<void> {
+  const started = new Promise<OpenTransaction>((resolve, failedToStart) => {
+    const done: Promise<void> = db
       .transaction(async (tx) => {
-        const decided = new Promise<boolean>((resolve) => {
-          transactions.set(id, { tx, finish: resolve, done });
+        const decided = new Promise<boolean>((finish) => {
+          const open = { tx, finish, done };
+          transactions.set(id, open);
+          resolve(open);
         });
-        started(id);
         if (!(await decided)) await tx.rollback();
       })
-      .finally(() => transactions.delete(id));
+      .finally(() => {
+        transactions.delete(id);
+        starting.delete(id);
+      });
     done.catch(failedToStart);
   });
+  starting.set(id, started);
+  return started.then(() => undefined);
 }
 
 async function finish(tx: number, commit: boolean): Promise<void> {
-  const open = transactions.get(tx);
-  if (!open) throw new Error(`Transaction ${tx} is not open on the database thread.`);
+  const open = await openTransaction(tx);
   open.finish(commit);
   await open.done;
 }
@@ -58,11 +68,11 @@ async function handle(request: Request): Promise<unknown> {
   const db = await opened;
   switch (request.op) {
     case 'query':
-      return target(db, request.tx).query(request.sql, request.params as unknown[], request.options);
+      return (await target(db, request.tx)).query(request.sql, request.params as unknown[], request.options);
     case 'exec':
-      return target(db, request.tx).exec(request.sql);
+      return (await target(db, request.tx)).exec(request.sql);
     case 'begin':
-      return begin(db);
+      return begin(db, request.tx);
     case 'commit':
     case 'rollback':
       return finish(request.tx, request.op === 'commit');

@@ -7,7 +7,7 @@ export type QueryOptions = { rowMode?: 'array' | 'object' };
 export type Request =
   | { id: number; op: 'query'; tx: number | null; sql: string; params: unknown[]; options: QueryOptions }
   | { id: number; op: 'exec'; tx: number | null; sql: string }
-  | { id: number; op: 'begin' }
+  | { id: number; op: 'begin'; tx: number }
   | { id: number; op: 'commit' | 'rollback'; tx: number }
   | { id: number; op: 'dump'; compression: 'none' | 'gzip' | 'auto' }
   | { id: number; op: 'close' };

@@ -2,28 +2,12 @@ import 'server-only';
 import { cache } from 'react';
 import { headers } from 'next/headers';
 import { redirect } from 'next/navigation';
-import { eq } from 'drizzle-orm';
 import { getDb } from '@/db/client';
-import { organisation } from '@/db/schema';
 import { AppError } from '@/lib/errors';
+import { organisationById } from '@/lib/dal/organisations';
 import { getAuth } from './auth';
 import type { Actor } from './actor';
 import { can, isRole, type Action, type Resource } from './permissions';
-
-type OrganisationOfActor = { id: string; name: string; kind: Actor['organisationKind'] };
-
-// Organisations are only ever added (createOrganisation), never edited or removed, so a row read
-// once holds for the life of the process and every request is spared one query. Which organisation
-// a user belongs to still comes fresh from the session's user row.
-const organisationsById = new Map<string, OrganisationOfActor>();
-
-async function organisationOf(id: string): Promise<OrganisationOfActor | null> {
-  const known = organisationsById.get(id);
-  if (known) return known;
-  const [row] = await getDb().select({ id: organisation.id, name: organisation.name, kind: organisation.kind }).from(organisation).where(eq(organisation.id, id));
-  if (row) organisationsById.set(id, row);
-  return row ?? null;
-}
 
 /** Resolves the signed-in actor from request headers, or null; a banned or role-less user is nobody. */
 export async function actorFromHeaders(requestHeaders: Headers): Promise<Actor | null> {
@@ -31,7 +15,7 @@ export async function actorFromHeaders(requestHeaders: Headers): Promise<Actor |
   if (!found) return null;
   const { user, session } = found;
   if (user.banned || !isRole(user.role)) return null;
-  const org = await organisationOf(user.organisationId as string);
+  const org = await organisationById(getDb(), user.organisationId as string);
   if (!org) return null;
   return {
     userId: user.id,

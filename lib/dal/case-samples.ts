@@ -1,5 +1,5 @@
 import 'server-only';
-import { and, desc, eq, inArray } from 'drizzle-orm';
+import { and, desc, eq, inArray, or, sql } from 'drizzle-orm';
 import type { DbOrTx } from '@/db/client';
 import { custodyEvent, sample } from '@/db/schema';
 
@@ -8,15 +8,14 @@ import { custodyEvent, sample } from '@/db/schema';
  * else the delivery's retained sample.
  */
 export async function currentSample(db: DbOrTx, caseRow: { id: string; deliveryId: string }) {
-  const [further] = await db.select().from(sample).where(eq(sample.caseId, caseRow.id)).orderBy(desc(sample.createdAt)).limit(1);
-  if (further) return further;
-  const [retained] = await db
+  // One statement for both: transitions call this with the case locked, and each statement there holds the lock longer.
+  const [current] = await db
     .select()
     .from(sample)
-    .where(and(eq(sample.deliveryId, caseRow.deliveryId), inArray(sample.kind, ['retained', 'counter'])))
-    .orderBy(desc(sample.createdAt))
+    .where(or(eq(sample.caseId, caseRow.id), and(eq(sample.deliveryId, caseRow.deliveryId), inArray(sample.kind, ['retained', 'counter']))))
+    .orderBy(desc(sql`coalesce(${sample.caseId} = ${caseRow.id}, false)`), desc(sample.createdAt))
     .limit(1);
-  return retained ?? null;
+  return current ?? null;
 }
 
 export async function custodyOf(db: DbOrTx, sampleId: string) {

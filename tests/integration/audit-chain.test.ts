@@ -1,9 +1,9 @@
 import { beforeAll, describe, expect, it } from 'vitest';
-import { asc, count, sql } from 'drizzle-orm';
+import { asc, count, desc, sql } from 'drizzle-orm';
 import { getDb } from '@/db/client';
 import { auditEvent } from '@/db/schema';
 import { verifyAuditChain } from '@/lib/audit/verify';
-import { recordAudit } from '@/lib/audit/record';
+import { chainedRow, recordAudit } from '@/lib/audit/record';
 import { seedDemoForTests } from './helpers';
 
 type Row = typeof auditEvent.$inferSelect;
@@ -104,5 +104,36 @@ describe('the audit chain', () => {
     const [{ n }] = await getDb().select({ n: count() }).from(auditEvent);
     expect(await verifyAuditChain(getDb())).toEqual({ ok: true, checked: n });
     expect(n).toBe(rows.length + 1);
+  });
+
+  it('links to the last committed event when the event this process wrote last was rolled back', async () => {
+    const seeded = { action: 'demo.seeded', objectType: 'system', objectId: 'test', change: { organisations: 0, deliveries: 0, cases: 0 } } as const;
+    const context = { actorUserId: null, actorOrganisationId: null, origin: 'integration test' };
+    const refused = new Error('the change this event recorded was refused');
+    await expect(
+      getDb().transaction(async (tx) => {
+        await recordAudit(tx, context, seeded);
+        throw refused;
+      }),
+    ).rejects.toBe(refused);
+    const before = await getDb().select({ n: count() }).from(auditEvent);
+    // The process's guess at the head is now a hash that was never committed.
+    await recordAudit(getDb(), context, seeded);
+    await recordAudit(getDb(), context, seeded);
+    const [{ n }] = await getDb().select({ n: count() }).from(auditEvent);
+    expect(n).toBe(before[0].n + 2);
+    expect(await verifyAuditChain(getDb())).toEqual({ ok: true, checked: n });
+  });
+
+  it('links to an event another process appended after this one last wrote', async () => {
+    const context = { actorUserId: null, actorOrganisationId: null, origin: 'integration test' };
+    const seeded = { action: 'demo.seeded', objectType: 'system', objectId: 'test', change: { organisations: 0, deliveries: 0, cases: 0 } } as const;
+    await recordAudit(getDb(), context, seeded);
+    // Another writer's event, chained as recordAudit chains it, without this process knowing.
+    const [head] = await getDb().select({ hash: auditEvent.hash }).from(auditEvent).orderBy(desc(auditEvent.seq)).limit(1);
+    await getDb().insert(auditEvent).values(chainedRow({ ...context, at: new Date() }, seeded, head.hash));
+    await recordAudit(getDb(), context, seeded);
+    const [{ n }] = await getDb().select({ n: count() }).from(auditEvent);
+    expect(await verifyAuditChain(getDb())).toEqual({ ok: true, checked: n });
   });
 });

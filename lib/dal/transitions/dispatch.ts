@@ -1,14 +1,15 @@
-import { and, eq } from 'drizzle-orm';
-import { custodyEvent, organisation } from '@/db/schema';
+import { custodyEvent } from '@/db/schema';
 import type { TransitionInputs } from '@/lib/cases/schemas';
 import { AppError } from '@/lib/errors';
 import { toTenthMilliC } from '@/lib/temperature';
 import { currentSample } from '../case-samples';
+import { organisationById } from '../organisations';
 import type { EffectContext, EffectResult } from './context';
 
 /** The plant sends the sealed retained sample to the referee laboratory. */
 export async function dispatchEffect({ tx, actor, caseRow, input, now }: EffectContext<TransitionInputs['dispatch']>): Promise<EffectResult> {
-  const [lab] = await tx.select({ id: organisation.id, name: organisation.name }).from(organisation).where(and(eq(organisation.id, input.labOrganisationId), eq(organisation.kind, 'lab')));
+  const named = await organisationById(tx, input.labOrganisationId);
+  const lab = named?.kind === 'lab' ? named : null;
   if (!lab) throw new AppError('invalid', 'Choose a referee laboratory.', { fieldErrors: { labOrganisationId: ['That is not a referee laboratory.'] } });
   const retained = await currentSample(tx, caseRow);
   if (!retained) throw new AppError('conflict', 'No retained sample is recorded for this delivery, so there is nothing to dispatch.');
