@@ -96,7 +96,8 @@ function open(): Handle {
   const inMemory = dataDir.startsWith('memory://');
   const release = inMemory ? () => {} : takeLock(dataDir);
   if (!inMemory) fs.mkdirSync(dataDir, { recursive: true });
-  const client = !inMemory && threadWanted() ? new RemotePGlite(dataDir) : new DrizzlePGlite(inMemory ? undefined : dataDir);
+  const sharedBuffers = settings.PGLITE_SHARED_BUFFERS;
+  const client = !inMemory && threadWanted() ? new RemotePGlite({ dataDir, sharedBuffers }) : new DrizzlePGlite(inMemory ? undefined : dataDir, { sharedBuffers });
   const db = drizzlePglite({ client: client as PGlite, schema });
   return {
     db,

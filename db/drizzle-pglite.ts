@@ -20,8 +20,11 @@ function withoutParsers(options?: QueryOptions): QueryOptions | undefined {
  * those types' text by its own table, set once, and drops the parsers a query brings.
  */
 export class DrizzlePGlite extends PGlite {
-  constructor(dataDir?: string) {
-    super(dataDir, { parsers: textKept });
+  /** `sharedBuffers` sizes PostgreSQL's page cache ("24MB"); PGlite's default, 128MB, is most of a server's memory. */
+  constructor(dataDir?: string, options: { sharedBuffers?: string } = {}) {
+    const startParams = options.sharedBuffers ? [...PGlite.defaultStartParams, '-c', `shared_buffers=${options.sharedBuffers}`] : undefined;
+    // One options object: PGlite reads a second argument only after a data folder.
+    super({ dataDir, parsers: textKept, startParams });
   }
 
   // On start, and whenever asked to look again, PGlite writes a parser for every array type over the

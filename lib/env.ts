@@ -14,6 +14,8 @@ const envSchema = z
     APP_ENV: z.enum(['development', 'demo', 'test', 'production']).default('development'),
     DATABASE_URL: z.url({ protocol: /^postgres(ql)?$/, error: 'must be a postgres:// or postgresql:// URL' }).optional(),
     PGLITE_DIR: z.string().min(1).default('data/pglite'),
+    // The embedded database's own page cache; the operating system caches its files as well.
+    PGLITE_SHARED_BUFFERS: z.string().regex(/^[1-9][0-9]*(kB|MB|GB)$/, 'must be a size such as 24MB').default('24MB'),
     BETTER_AUTH_URL: z.url({ protocol: /^https?$/, error: 'must be an http(s) URL' }).default('http://localhost:3000'),
     BETTER_AUTH_SECRET: z.string().min(32, 'must be at least 32 characters').default(DEV_AUTH_SECRET),
     SMTP_URL: z.url({ protocol: /^smtps?$/, error: 'must be an smtp:// or smtps:// URL' }).default('smtp://127.0.0.1:1025'),

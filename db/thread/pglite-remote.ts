@@ -34,8 +34,8 @@ export class RemotePGlite {
   #nextTransaction = 1;
   #failure: Error | null = null;
 
-  constructor(dataDir: string, spawn: SpawnThread = spawnBundledThread) {
-    this.#worker = spawn({ dataDir });
+  constructor(init: ThreadInit, spawn: SpawnThread = spawnBundledThread) {
+    this.#worker = spawn(init);
     this.#worker.on('message', (reply: Reply) => {
       const pending = this.#pending.get(reply.id);
       if (!pending) return;
@@ -49,7 +49,10 @@ export class RemotePGlite {
       for (const { reject } of this.#pending.values()) reject(this.#failure);
       this.#pending.clear();
     };
-    this.#worker.on('error', fail);
+    this.#worker.on('error', (error) => {
+      console.error('The database thread failed; every later query will be refused:', error);
+      fail(error);
+    });
     this.#worker.on('exit', (code) => fail(new Error(`The database thread stopped (exit code ${code}).`)));
     // The thread keeps the process alive only while an answer is awaited, as a socket would.
     this.#worker.unref();

@@ -5,8 +5,8 @@ import type { PGlite, Transaction } from '@electric-sql/pglite';
 import { DrizzlePGlite } from '../drizzle-pglite';
 import type { Reply, Request, ThreadError, ThreadInit } from './protocol';
 
-const { dataDir } = workerData as ThreadInit;
-const database = new DrizzlePGlite(dataDir);
+const { dataDir, sharedBuffers } = workerData as ThreadInit;
+const database = new DrizzlePGlite(dataDir, { sharedBuffers });
 const opened = database.waitReady.then(() => database);
 
 type OpenTransaction = { tx: Transaction; finish: (commit: boolean) => void; done: Promise<void> };

@@ -17,4 +17,4 @@ export type ThreadError = { name: string; message: string; fields: Record<string
 
 export type Reply = { id: number; ok: true; value: unknown } | { id: number; ok: false; error: ThreadError };
 
-export type ThreadInit = { dataDir: string };
+export type ThreadInit = { dataDir: string; sharedBuffers: string };

@@ -20,7 +20,7 @@ describe.skipIf(Boolean(process.env.DATABASE_URL))('the embedded database on its
 
   beforeEach(async () => {
     dir = fs.mkdtempSync(path.join(os.tmpdir(), 'countersample-thread-'));
-    remote = new RemotePGlite(path.join(dir, 'db'), spawnFromSource);
+    remote = new RemotePGlite({ dataDir: path.join(dir, 'db'), sharedBuffers: '16MB' }, spawnFromSource);
     await remote.exec('create table item (id integer primary key, label text not null)');
   });
 
@@ -40,6 +40,11 @@ describe.skipIf(Boolean(process.env.DATABASE_URL))('the embedded database on its
     expect(arrays.rows).toEqual([[2, 'second']]);
     const dated = await remote.query<{ at: unknown; day: unknown; n: unknown }>(`select timestamptz '2026-03-01 10:00:00+00' as at, date '2026-03-01' as day, 7::int as n`);
     expect(dated.rows[0]).toEqual({ at: '2026-03-01 10:00:00+00', day: '2026-03-01', n: 7 });
+  });
+
+  it('starts PostgreSQL with the page cache it was given', async () => {
+    const { rows } = await remote.query<{ shared_buffers: string }>('show shared_buffers');
+    expect(rows[0].shared_buffers).toBe('16MB');
   });
 
   it('passes on PostgreSQL’s error fields, and the thread keeps serving after an error', async () => {

@@ -20,6 +20,16 @@ describe.skipIf(Boolean(process.env.DATABASE_URL))('PGlite as drizzle uses it', 
   });
   afterAll(() => client.close());
 
+  it('starts PostgreSQL with the page cache it is given, and PGlite’s own without one', async () => {
+    const sized = new DrizzlePGlite(undefined, { sharedBuffers: '16MB' });
+    try {
+      expect((await sized.query<{ shared_buffers: string }>('show shared_buffers')).rows[0].shared_buffers).toBe('16MB');
+    } finally {
+      await sized.close();
+    }
+    expect((await client.query<{ shared_buffers: string }>('show shared_buffers')).rows[0].shared_buffers).toBe('128MB');
+  });
+
   it('hands over the text of dates and times, as drizzle’s own parsers would', async () => {
     const { rows } = await client.query<Record<string, unknown>>(
       `select timestamptz '2026-03-01 10:00:00.5+00' as tz, timestamp '2026-03-01 10:00' as ts, date '2026-03-01' as d, interval '90 minutes' as i, array[timestamp '2026-03-01 10:00'] as ts_list, array[1.5::numeric] as n_list, 3::int as n, '{"a":1}'::jsonb as j`,

@@ -19,6 +19,7 @@ describe('parseEnv', () => {
     expect(settings.APP_ENV).toBe('development');
     expect(settings.DATABASE_URL).toBeUndefined();
     expect(settings.PGLITE_DIR).toBe('data/pglite');
+    expect(settings.PGLITE_SHARED_BUFFERS).toBe('24MB');
   });
 
   it.each([
@@ -28,6 +29,8 @@ describe('parseEnv', () => {
     ['BETTER_AUTH_SECRET', 'too-short'],
     ['SMTP_URL', 'http://mail.example.test'],
     ['MAIL_CATCHER_URL', 'not a url'],
+    ['PGLITE_SHARED_BUFFERS', '24'],
+    ['PGLITE_SHARED_BUFFERS', '24MB; drop table'],
     ['DEMO_PASSWORD', 'short'],
   ])('names %s when it is wrong, and only it', (name, value) => {
     const problems = problemsOf({ [name]: value });
