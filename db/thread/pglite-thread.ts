@@ -10,7 +10,8 @@ const database = new DrizzlePGlite(dataDir, { sharedBuffers });
 const opened = database.waitReady.then(() => database);
 
 type OpenTransaction = { tx: Transaction; finish: (commit: boolean) => void; done: Promise<void> };
-const transactions = new Map<number, OpenTransaction>();
+// By the request thread's number, from the moment it asked: a statement may arrive before the lock is taken.
+const transactions = new Map<number, Promise<OpenTransaction>>();
 
 function asThreadError(error: unknown): ThreadError {
   if (!(error instanceof Error)) return { name: 'Error', message: String(error), fields: {} };
@@ -19,10 +20,8 @@ function asThreadError(error: unknown): ThreadError {
   return { name: error.name, message: error.message, fields };
 }
 
-const starting = new Map<number, Promise<OpenTransaction>>();
-
 async function openTransaction(tx: number): Promise<OpenTransaction> {
-  const open = transactions.get(tx) ?? (await starting.get(tx));
+  const open = await transactions.get(tx);
   if (!open) throw new Error(`Transaction ${tx} is not open on the database thread.`);
   return open;
 }
@@ -41,20 +40,13 @@ function begin(db: PGlite, id: number): Promise<void> {
   const started = new Promise<OpenTransaction>((resolve, failedToStart) => {
     const done: Promise<void> = db
       .transaction(async (tx) => {
-        const decided = new Promise<boolean>((finish) => {
-          const open = { tx, finish, done };
-          transactions.set(id, open);
-          resolve(open);
-        });
+        const decided = new Promise<boolean>((finish) => resolve({ tx, finish, done }));
         if (!(await decided)) await tx.rollback();
       })
-      .finally(() => {
-        transactions.delete(id);
-        starting.delete(id);
-      });
+      .finally(() => transactions.delete(id));
     done.catch(failedToStart);
   });
-  starting.set(id, started);
+  transactions.set(id, started);
   return started.then(() => undefined);
 }
 
