@@ -2,6 +2,7 @@ import 'server-only';
 import { and, eq, inArray } from 'drizzle-orm';
 import { z } from 'zod';
 import type { Db } from '@/db/client';
+import { pipelined } from '@/db/pipeline';
 import { disputeCase, type CaseStatus } from '@/db/schema';
 import type { Actor } from '@/lib/auth/actor';
 import { can } from '@/lib/auth/permissions';
@@ -12,6 +13,7 @@ import { caseStatusLabel } from '@/lib/cases/labels';
 import { AppError, invalidInput } from '@/lib/errors';
 import { notifyCase } from '@/lib/mail/case-mails';
 import { mailAfterCommit } from '@/lib/mail/outbox';
+import { currentSample } from './case-samples';
 import { caseVisibility, holdsRoleOn } from './case-scope';
 import { rulesVersion } from './rules';
 import type { EffectContext, EffectResult } from './transitions/context';
@@ -61,8 +63,12 @@ export async function runTransition<N extends TransitionName>(
   const input = parsed.data as TransitionInputs[N];
   const now = context.now ?? new Date();
 
-  const { row, from } = await db.transaction(async (tx) => {
-    const [locked] = await tx.select().from(disputeCase).where(and(eq(disputeCase.id, caseId), caseVisibility(actor))).for('update');
+  const before = await db.transaction(async (tx) => {
+    // The case is locked and its sample read in one wait; the sample query finds the case by itself.
+    const [[locked], sample] = await pipelined([
+      () => tx.select().from(disputeCase).where(and(eq(disputeCase.id, caseId), caseVisibility(actor))).for('update'),
+      () => currentSample(tx, { id: caseId }),
+    ]);
     if (!locked) throw new AppError('not_found', 'That case was not found.');
     if (!holdsRoleOn(actor, locked)) throw new AppError('forbidden', 'Your organisation no longer holds this case: the board has sent the sample to another laboratory.');
     // A form or client that says which state it saw gets 409 when the case has moved on since,
@@ -72,24 +78,31 @@ export async function runTransition<N extends TransitionName>(
     }
     const rules = await rulesVersion(tx, locked.rulesVersionId);
     if (!rules) throw new Error(`Case ${locked.number} names rules version ${locked.rulesVersionId}, which is missing`);
-    const result = await effects[name]({ tx, actor, caseRow: locked, input, now, rules: rules.rules });
-    const [updated] = await tx
-      .update(disputeCase)
-      .set({ ...result.caseChanges, status: spec.to, updatedAt: now })
-      .where(and(eq(disputeCase.id, caseId), inArray(disputeCase.status, [...spec.from])))
-      .returning();
+    const result = await effects[name]({ tx, actor, caseRow: locked, sample, input, now, rules: rules.rules });
+    const parties = { ...locked, ...result.caseChanges };
+    // Nothing below needs another's answer: one wait for all of them while the case is locked.
+    const [[updated]] = await pipelined([
+      () =>
+        tx
+          .update(disputeCase)
+          .set({ ...result.caseChanges, status: spec.to, updatedAt: now })
+          .where(and(eq(disputeCase.id, caseId), inArray(disputeCase.status, [...spec.from])))
+          .returning({ id: disputeCase.id }),
+      ...(result.writes ?? []),
+      () =>
+        recordAudit(tx, { actorUserId: actor.userId, actorOrganisationId: actor.organisationId, origin: context.origin, at: now }, {
+          action: 'case.transitioned',
+          objectType: 'case',
+          objectId: caseId,
+          caseId,
+          change: { from: locked.status, to: spec.to, transition: name, detail: result.detail },
+        }),
+      () => notifyCase(tx, parties, spec.notify, result.notice),
+    ]);
     if (!updated) throw new AppError('conflict', 'Someone else changed this case at the same moment. Reload it to see what happened.');
-    await recordAudit(tx, { actorUserId: actor.userId, actorOrganisationId: actor.organisationId, origin: context.origin, at: now }, {
-      action: 'case.transitioned',
-      objectType: 'case',
-      objectId: caseId,
-      caseId,
-      change: { from: locked.status, to: spec.to, transition: name, detail: result.detail },
-    });
-    await notifyCase(tx, updated, spec.notify, result.notice);
-    return { row: updated, from: locked.status };
+    return { status: locked.status, number: locked.number };
   });
 
   await mailAfterCommit();
-  return { caseId, number: row.number, from, to: spec.to, transition: name };
+  return { caseId, number: before.number, from: before.status, to: spec.to, transition: name };
 }

@@ -3,13 +3,14 @@ import type { z } from 'zod';
 import { actorFromHeaders } from '@/lib/auth/session';
 import type { Actor } from '@/lib/auth/actor';
 import { AppError, invalidInput } from '@/lib/errors';
+import { jsonResponse } from './json-response';
 import { errorResponse } from './problem';
 
 type RouteContext<P> = { params: Promise<P> };
 type Handler<P, A> = (input: { request: Request; actor: A; params: P }) => Promise<Response | object>;
 
 function toResponse(result: Response | object): Response {
-  return result instanceof Response ? result : Response.json(result, { headers: { 'cache-control': 'no-store' } });
+  return result instanceof Response ? result : jsonResponse(result, { headers: { 'cache-control': 'no-store' } });
 }
 
 /**

@@ -1,9 +1,10 @@
 import { AppError, toProblemDetails } from '@/lib/errors';
+import { jsonResponse } from './json-response';
 
 export function problemResponse(error: AppError, instance?: string): Response {
   const headers = new Headers({ 'content-type': 'application/problem+json', 'cache-control': 'no-store' });
   if (error.code === 'unauthenticated') headers.set('www-authenticate', 'Cookie realm="countersample"');
-  return new Response(JSON.stringify(toProblemDetails(error, instance)), { status: error.status, headers });
+  return jsonResponse(toProblemDetails(error, instance), { status: error.status, headers });
 }
 
 /** Expected errors become their problem details; anything else is logged and answered without detail. */
@@ -19,5 +20,5 @@ export function errorResponse(error: unknown, request: Request): Response {
     instance,
     code: 'internal',
   };
-  return new Response(JSON.stringify(body), { status: 500, headers: { 'content-type': 'application/problem+json', 'cache-control': 'no-store' } });
+  return jsonResponse(body, { status: 500, headers: { 'content-type': 'application/problem+json', 'cache-control': 'no-store' } });
 }

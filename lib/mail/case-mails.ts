@@ -1,10 +1,10 @@
 import 'server-only';
-import { and, asc, inArray } from 'drizzle-orm';
+import { and, asc, inArray, sql } from 'drizzle-orm';
 import type { DbOrTx } from '@/db/client';
-import { user } from '@/db/schema';
+import { outgoingMail, user } from '@/db/schema';
 import type { Audience } from '@/lib/cases/lifecycle';
 import { env } from '@/lib/env';
-import { queueMail, type QueuedMessage } from './outbox';
+import type { QueuedMessage } from './outbox';
 
 export type CaseParties = {
   id: string;
@@ -48,50 +48,63 @@ async function recipientsByAudience(db: DbOrTx, parties: CaseParties, audiences:
 
 export type CaseNotice = { template: string; subject: string; headline: string; lines: string[]; actionLabel?: string };
 
+type AudienceMessage = Omit<QueuedMessage, 'to'>;
+
+/**
+ * Queues one message per audience, addressed to that party's people, in one statement: the
+ * addresses are looked up by the insert itself, and a party with nobody to tell gets no message.
+ * Transitions send it with their other writes while the case is locked, so it must not need an
+ * answer first.
+ */
+async function queueForAudiences(tx: DbOrTx, parties: CaseParties, audiences: readonly Audience[], message: (audience: Audience) => AudienceMessage) {
+  const wanted = audiences.flatMap((audience, order) => {
+    const organisationId = organisationFor(parties, audience);
+    if (!organisationId) return [];
+    const m = message(audience);
+    return [{ order, organisation_id: organisationId, roles: rolesFor[audience], subject: m.subject, template: m.template, case_id: m.caseId ?? null, content: m.content }];
+  });
+  if (wanted.length === 0) return;
+  await tx.execute(sql`
+    insert into ${outgoingMail} ("to", subject, template, case_id, content)
+    select r.emails, m.subject, m.template, m.case_id, m.content
+    from jsonb_to_recordset(${JSON.stringify(wanted)}::jsonb) as m("order" int, organisation_id uuid, roles text[], subject text, template text, case_id uuid, content jsonb)
+    cross join lateral (
+      select array_agg(u.email order by u.email) as emails from ${user} u where u.organisation_id = m.organisation_id and u.role = any(m.roles)
+    ) r
+    where r.emails is not null
+    order by m."order"`);
+}
+
 /**
  * Queues a notice of a case event for each audience, one message per party, in the transaction of
  * the event itself; the delivery worker sends them once it has committed (mailAfterCommit). A
  * failed hand-over is recorded on the message and never undoes the change.
  */
-export async function notifyCase(tx: DbOrTx, parties: CaseParties, audiences: readonly Audience[], notice: CaseNotice | ((audience: Audience) => CaseNotice)) {
+export function notifyCase(tx: DbOrTx, parties: CaseParties, audiences: readonly Audience[], notice: CaseNotice | ((audience: Audience) => CaseNotice)) {
   const url = `${env().BETTER_AUTH_URL}/cases/${parties.id}`;
-  const messages: QueuedMessage[] = [];
-  const recipients = await recipientsByAudience(tx, parties, audiences);
-  for (const audience of audiences) {
-    const to = recipients.get(audience) ?? [];
-    if (to.length === 0) continue;
+  return queueForAudiences(tx, parties, audiences, (audience) => {
     const n = typeof notice === 'function' ? notice(audience) : notice;
-    messages.push({
-      to,
+    return {
       subject: `${parties.number}: ${n.subject}`,
       template: n.template,
       caseId: parties.id,
       content: { layout: 'case-notice', props: { greeting: 'Hello,', headline: n.headline, lines: n.lines, url, actionLabel: n.actionLabel ?? `Open ${parties.number}` } },
-    });
-  }
-  await queueMail(tx, messages);
+    };
+  });
 }
 
 /** Queues the news of a shared note for each audience, one message per party, in the note's transaction. */
-export async function notifyCaseNote(
+export function notifyCaseNote(
   tx: DbOrTx,
   parties: CaseParties,
   audiences: readonly Audience[],
   note: { authorName: string; organisationName: string; isReply: boolean; excerpt: string },
 ) {
   const url = `${env().BETTER_AUTH_URL}/cases/${parties.id}#notes`;
-  const messages: QueuedMessage[] = [];
-  const recipients = await recipientsByAudience(tx, parties, audiences);
-  for (const audience of audiences) {
-    const to = recipients.get(audience) ?? [];
-    if (to.length === 0) continue;
-    messages.push({
-      to,
-      subject: `${parties.number}: ${note.isReply ? 'a reply' : 'a new note'} from ${note.organisationName}`,
-      template: 'note-posted',
-      caseId: parties.id,
-      content: { layout: 'note-posted', props: { caseNumber: parties.number, ...note, url } },
-    });
-  }
-  await queueMail(tx, messages);
+  return queueForAudiences(tx, parties, audiences, () => ({
+    subject: `${parties.number}: ${note.isReply ? 'a reply' : 'a new note'} from ${note.organisationName}`,
+    template: 'note-posted',
+    caseId: parties.id,
+    content: { layout: 'note-posted', props: { caseNumber: parties.number, ...note, url } },
+  }));
 }

@@ -104,6 +104,18 @@ describe.skipIf(Boolean(process.env.DATABASE_URL))('the embedded database on its
     expect(await db.select().from(item).orderBy(item.id)).toEqual([{ id: 1, label: 'outer, edited' }]);
   });
 
+  it('runs statements sent at once in a transaction in the order they were sent, the first going out with the start', async () => {
+    const db = drizzle({ client: remote as unknown as PGlite });
+    const answers = await db.transaction((tx) =>
+      Promise.all([
+        tx.insert(item).values({ id: 1, label: 'sent first' }).returning(),
+        tx.update(item).set({ label: 'then edited' }).where(eq(item.id, 1)).returning(),
+        tx.select().from(item),
+      ]),
+    );
+    expect(answers).toEqual([[{ id: 1, label: 'sent first' }], [{ id: 1, label: 'then edited' }], [{ id: 1, label: 'then edited' }]]);
+  });
+
   it('dumps a snapshot that opens as a database with the committed rows', async () => {
     await remote.query('insert into item (id, label) values (1, $1)', ['in the snapshot']);
     const tar = await remote.dumpDataDir('none');

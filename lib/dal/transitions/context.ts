@@ -4,11 +4,15 @@ import type { Actor } from '@/lib/auth/actor';
 import type { SchemeRules } from '@/lib/rules/schema';
 import type { CaseNotice } from '@/lib/mail/case-mails';
 import type { Audience } from '@/lib/cases/lifecycle';
+import type { CurrentSample } from '../case-samples';
 
 export type CaseRow = typeof disputeCase.$inferSelect;
 
-/** What each transition's effect gets: the open transaction, the locked case row and the rules it was opened under. */
-export type EffectContext<I> = { tx: Tx; actor: Actor; caseRow: CaseRow; input: I; now: Date; rules: SchemeRules };
+/**
+ * What each transition's effect gets: the open transaction, the locked case row, the sample the case
+ * is on (read with the lock) and the rules it was opened under.
+ */
+export type EffectContext<I> = { tx: Tx; actor: Actor; caseRow: CaseRow; sample: CurrentSample | null; input: I; now: Date; rules: SchemeRules };
 
 export type EffectResult = {
   /** Columns of the case to change besides its status. */
@@ -16,4 +20,9 @@ export type EffectResult = {
   /** Recorded in the audit event; never secrets. */
   detail: Record<string, unknown>;
   notice: CaseNotice | ((audience: Audience) => CaseNotice);
+  /**
+   * Statements whose answers nobody needs, such as custody events: they go out together with the
+   * case's update, its audit event and its notices, so the lock waits for them once.
+   */
+  writes?: (() => PromiseLike<unknown>)[];
 };

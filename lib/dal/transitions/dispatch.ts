@@ -2,23 +2,21 @@ import { custodyEvent } from '@/db/schema';
 import type { TransitionInputs } from '@/lib/cases/schemas';
 import { AppError } from '@/lib/errors';
 import { toTenthMilliC } from '@/lib/temperature';
-import { currentSample } from '../case-samples';
 import { organisationById } from '../organisations';
 import type { EffectContext, EffectResult } from './context';
 
 /** The plant sends the sealed retained sample to the referee laboratory. */
-export async function dispatchEffect({ tx, actor, caseRow, input, now }: EffectContext<TransitionInputs['dispatch']>): Promise<EffectResult> {
+export async function dispatchEffect({ tx, actor, sample: retained, input, now }: EffectContext<TransitionInputs['dispatch']>): Promise<EffectResult> {
   const named = await organisationById(tx, input.labOrganisationId);
   const lab = named?.kind === 'lab' ? named : null;
   if (!lab) throw new AppError('invalid', 'Choose a referee laboratory.', { fieldErrors: { labOrganisationId: ['That is not a referee laboratory.'] } });
-  const retained = await currentSample(tx, caseRow);
   if (!retained) throw new AppError('conflict', 'No retained sample is recorded for this delivery, so there is nothing to dispatch.');
   if (retained.sealNumber && retained.sealNumber !== input.sealNumber) {
     throw new AppError('invalid', 'The seal number differs from the one recorded when the sample was sealed.', {
       fieldErrors: { sealNumber: [`The retained sample was sealed as ${retained.sealNumber}.`] },
     });
   }
-  await tx.insert(custodyEvent).values({
+  const custody = tx.insert(custodyEvent).values({
     sampleId: retained.id,
     kind: 'dispatched',
     at: now,
@@ -31,6 +29,7 @@ export async function dispatchEffect({ tx, actor, caseRow, input, now }: EffectC
     note: input.answer || null,
   });
   return {
+    writes: [() => custody],
     caseChanges: { labOrganisationId: lab.id },
     detail: { sampleCode: retained.code, sealNumber: input.sealNumber, laboratory: lab.name, answer: input.answer || undefined },
     notice: (audience) => ({

@@ -26,12 +26,13 @@ export async function orderFurtherTestEffect({ tx, actor, caseRow, input, now, r
       sampledAt: input.sampledAt,
     })
     .returning();
-  await tx.insert(custodyEvent).values([
+  const custody = tx.insert(custodyEvent).values([
     { sampleId: created.id, kind: 'sealed', at: input.sampledAt, actorUserId: actor.userId, organisationId: actor.organisationId, sealIntact: true, note: input.kind === 'authentic' ? 'Supervised authentic herd sample.' : 'Further portion for a third laboratory.' },
     { sampleId: created.id, kind: 'dispatched', at: now, actorUserId: actor.userId, organisationId: actor.organisationId, location: `To ${lab.name}`, sealIntact: true, frozen: false },
   ]);
   const kindLabel = input.kind === 'authentic' ? 'an authentic herd sample' : 'a test by a third laboratory';
   return {
+    writes: [() => custody],
     // The new laboratory starts blind, with the new sample's own validity.
     caseChanges: { labOrganisationId: lab.id, retestSubmittedAt: null, decisionDueAt: null, sampleValidUntil: new Date(input.sampledAt.getTime() + rules.sample.validHours * 3_600_000) },
     detail: { kind: input.kind, laboratory: lab.name, sampleCode: input.sampleCode, reasons: input.reasons },

@@ -2,16 +2,14 @@ import { custodyEvent } from '@/db/schema';
 import type { TransitionInputs } from '@/lib/cases/schemas';
 import { AppError } from '@/lib/errors';
 import { toTenthMilliC } from '@/lib/temperature';
-import { currentSample } from '../case-samples';
 import type { EffectContext, EffectResult } from './context';
 
 /** The referee laboratory records the sample's condition on arrival. A broken seal is recorded, not refused: the board weighs it. */
-export async function receiveEffect({ tx, actor, caseRow, input, now, rules }: EffectContext<TransitionInputs['receive']>): Promise<EffectResult> {
-  const current = await currentSample(tx, caseRow);
+export async function receiveEffect({ tx, actor, sample: current, input, now, rules }: EffectContext<TransitionInputs['receive']>): Promise<EffectResult> {
   if (!current) throw new AppError('conflict', 'No sample was dispatched for this case.');
   const sealMatches = !current.sealNumber || current.sealNumber === input.sealNumber;
   const sealIntact = input.sealIntact && sealMatches;
-  await tx.insert(custodyEvent).values([
+  const custody = tx.insert(custodyEvent).values([
     { sampleId: current.id, kind: 'received', at: now, actorUserId: actor.userId, organisationId: actor.organisationId, location: actor.organisationName, tempTenthMilliC: toTenthMilliC(input.temperature), sealIntact, frozen: input.frozen, note: input.condition || null },
     { sampleId: current.id, kind: 'seal_checked', at: now, actorUserId: actor.userId, organisationId: actor.organisationId, sealIntact, note: sealMatches ? `Seal ${input.sealNumber} matches the record.` : `Seal read as ${input.sealNumber}; the record says ${current.sealNumber}.` },
   ]);
@@ -20,6 +18,7 @@ export async function receiveEffect({ tx, actor, caseRow, input, now, rules }: E
     (c): c is string => c !== null,
   );
   return {
+    writes: [() => custody],
     detail: { sampleCode: current.code, sealIntact, frozen: input.frozen, temperature: input.temperature },
     notice: {
       template: 'case-received',

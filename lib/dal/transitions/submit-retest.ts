@@ -6,14 +6,13 @@ import { calibrationCheck as checkCalibration, finalResult } from '@/lib/arbitra
 import type { TransitionInputs } from '@/lib/cases/schemas';
 import { AppError } from '@/lib/errors';
 import { formatCelsius, toTenthMilliC } from '@/lib/temperature';
-import { currentSample } from '../case-samples';
 import type { EffectContext, EffectResult } from './context';
 
 /**
  * The referee laboratory's readings, with the calibration check it ran before them. The final result
  * is the decision module's, never the client's; an unfinished set or an unfit instrument is refused.
  */
-export async function submitRetestEffect({ tx, actor, caseRow, input, now, rules }: EffectContext<TransitionInputs['submit_retest']>): Promise<EffectResult> {
+export async function submitRetestEffect({ tx, actor, caseRow, sample, input, now, rules }: EffectContext<TransitionInputs['submit_retest']>): Promise<EffectResult> {
   const [device] = await tx.select().from(instrument).where(and(eq(instrument.id, input.instrumentId), eq(instrument.organisationId, actor.organisationId), eq(instrument.active, true)));
   if (!device) throw new AppError('invalid', 'Choose one of your laboratory’s instruments.', { fieldErrors: { instrumentId: ['That instrument is not one of your laboratory’s.'] } });
 
@@ -30,7 +29,6 @@ export async function submitRetestEffect({ tx, actor, caseRow, input, now, rules
       fieldErrors: { readings: [`${result.needed} more reading${result.needed === 1 ? '' : 's'} needed: the first two differ by more than the repeatability limit.`] },
     });
   }
-  const sample = await currentSample(tx, caseRow);
   if (!sample) throw new AppError('conflict', 'No sample was received for this case.');
   const [receipt] = await tx
     .select({ at: custodyEvent.at })
@@ -85,10 +83,11 @@ export async function submitRetestEffect({ tx, actor, caseRow, input, now, rules
       submittedAt: now,
     })
     .returning({ id: measurementSet.id });
-  await tx.insert(reading).values(input.readings.map((r, i) => ({ measurementSetId: set.id, position: i + 1, valueTenthMilliC: toTenthMilliC(r.value), flag: r.flag })));
-  await tx.insert(custodyEvent).values({ sampleId: sample.id, kind: 'opened', at: testedAt, actorUserId: actor.userId, organisationId: actor.organisationId, location: device.description, sealIntact: null, note: 'Opened for the retest.' });
+  const readings = tx.insert(reading).values(input.readings.map((r, i) => ({ measurementSetId: set.id, position: i + 1, valueTenthMilliC: toTenthMilliC(r.value), flag: r.flag })));
+  const opened = tx.insert(custodyEvent).values({ sampleId: sample.id, kind: 'opened', at: testedAt, actorUserId: actor.userId, organisationId: actor.organisationId, location: device.description, sealIntact: null, note: 'Opened for the retest.' });
 
   return {
+    writes: [() => readings, () => opened],
     caseChanges: { retestSubmittedAt: now, decisionDueAt: addBusinessDays(now, rules.deadlines.decisionWorkingDays) },
     detail: { measurementSetId: set.id, readings: values.length, used: result.used, basis: result.basis, result: result.value, calibrationWithin: calibration.within },
     notice: (audience) => ({

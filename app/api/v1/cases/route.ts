@@ -4,6 +4,7 @@ import { requestOrigin } from '@/lib/http/origin';
 import { listCases } from '@/lib/dal/cases';
 import { caseListQuerySchema } from '@/lib/dal/cases-query';
 import { openDispute } from '@/lib/dal/open-dispute';
+import { jsonResponse } from '@/lib/http/json-response';
 
 export const dynamic = 'force-dynamic';
 
@@ -17,5 +18,5 @@ export const GET = withActor(async ({ request, actor }) => {
 export const POST = withActor(async ({ request, actor }) => {
   const body = await readJsonBody(request);
   const created = await openDispute(getDb(), actor, body, { origin: requestOrigin(request.headers, 'api') });
-  return Response.json({ id: created.id, number: created.number, status: created.status }, { status: 201, headers: { location: `/api/v1/cases/${created.id}` } });
+  return jsonResponse({ id: created.id, number: created.number, status: created.status }, { status: 201, headers: { location: `/api/v1/cases/${created.id}` } });
 });
