@@ -15,6 +15,8 @@ export type Candidate = {
   resultId: string;
   deliveryId: string;
   reference: string;
+  farmId: string;
+  receivedAt: Date;
   supplierOrganisationId: string;
   collectedAt: Date;
   testedAt: Date;
@@ -147,6 +149,9 @@ export function buildCases(candidates: Candidate[], parties: ScaleParties, rando
       year,
       sequence,
       deliveryId: load.deliveryId,
+      deliveryReference: load.reference,
+      farmId: load.farmId,
+      deliveredAt: load.receivedAt,
       intakeResultId: load.resultId,
       supplierOrganisationId: load.supplierOrganisationId,
       plantOrganisationId: parties.plant.organisationId,

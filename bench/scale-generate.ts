@@ -144,6 +144,8 @@ export async function generateScaleData(db: Db, options: { password: string; now
         resultId: intakeResult.id,
         deliveryId: delivery.id,
         reference: delivery.reference,
+        farmId: delivery.farmId,
+        receivedAt: delivery.receivedAt,
         supplierOrganisationId: delivery.supplierOrganisationId,
         collectedAt: delivery.collectedAt,
         testedAt: intakeResult.decidedAt,

@@ -1,8 +1,8 @@
 import { sql } from 'drizzle-orm';
-import { check, index, integer, pgTable, text, timestamp, uniqueIndex, uuid } from 'drizzle-orm/pg-core';
+import { check, foreignKey, index, integer, pgTable, text, timestamp, uniqueIndex, uuid } from 'drizzle-orm/pg-core';
 import { delivery } from './deliveries';
 import { intakeResult } from './intake';
-import { organisation } from './organisations';
+import { organisation, supplierFarm } from './organisations';
 import { schemeRules } from './rules';
 import { user } from './auth';
 import type { CaseStatus, DisputeGround } from '../../lib/enums';
@@ -20,6 +20,14 @@ export const disputeCase = pgTable(
     deliveryId: uuid('delivery_id')
       .notNull()
       .references(() => delivery.id),
+    // The delivery's reference, farm and time of receipt, which case lists search and sort by: copied
+    // so a list reads the cases alone rather than joining 73,000 deliveries to keep fifty. A delivery
+    // is never edited, and the foreign key below holds the copy to it.
+    deliveryReference: text('delivery_reference').notNull(),
+    farmId: uuid('farm_id')
+      .notNull()
+      .references(() => supplierFarm.id),
+    deliveredAt: timestamp('delivered_at', { withTimezone: true }).notNull(),
     intakeResultId: uuid('intake_result_id')
       .notNull()
       .references(() => intakeResult.id),
@@ -61,6 +69,11 @@ export const disputeCase = pgTable(
     index('dispute_case_lab_idx').on(t.labOrganisationId, t.status),
     index('dispute_case_board_idx').on(t.boardOrganisationId, t.status),
     index('dispute_case_opened_idx').on(t.openedAt),
+    foreignKey({
+      name: 'dispute_case_delivery_facts_fk',
+      columns: [t.deliveryId, t.deliveryReference, t.farmId, t.deliveredAt],
+      foreignColumns: [delivery.id, delivery.reference, delivery.farmId, delivery.receivedAt],
+    }),
     check(
       'dispute_case_status_check',
       sql`${t.status} in ('open', 'awaiting_sample', 'retest', 'review', 'decided', 'withdrawn')`,

@@ -49,12 +49,12 @@ function listFilters(actor: Actor, query: CaseListQuery, now: Date): SQL {
   if (query.overdue === false) filters.push(sql`(${caseDueAt} is null or ${caseDueAt} >= ${now})`);
   if (query.q) {
     const pattern = `%${query.q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
-    // Farm and supplier names are matched in their own small tables, so the search joins only the delivery.
+    // Farm and supplier names are matched in their own small tables; the delivery's reference and farm are on the case.
     filters.push(
       or(
         ilike(disputeCase.number, pattern),
-        ilike(delivery.reference, pattern),
-        sql`${delivery.farmId} in (select ${supplierFarm.id} from ${supplierFarm} where ${supplierFarm.name} ilike ${pattern})`,
+        ilike(disputeCase.deliveryReference, pattern),
+        sql`${disputeCase.farmId} in (select ${supplierFarm.id} from ${supplierFarm} where ${supplierFarm.name} ilike ${pattern})`,
         sql`${disputeCase.supplierOrganisationId} in (select ${organisation.id} from ${organisation} where ${organisation.name} ilike ${pattern})`,
       )!,
     );
@@ -67,7 +67,7 @@ const sortColumns = {
   number: disputeCase.number,
   status: disputeCase.status,
   dueAt: caseDueAt,
-  deliveredAt: delivery.receivedAt,
+  deliveredAt: disputeCase.deliveredAt,
   value: intakeResult.valueTenthMilliC,
 } as const;
 
@@ -80,13 +80,9 @@ const sortColumns = {
 export async function listCases(db: DbOrTx, actor: Actor, query: CaseListQuery, now = new Date()): Promise<CaseListPage> {
   if (!can(actor.role, 'case', 'list')) throw new AppError('forbidden', 'Your role does not work on cases.');
   const where = listFilters(actor, query, now);
-  const searching = Boolean(query.q);
   // The selections are fixed before joining, so a join changes which rows come back, not their type.
-  const join = <T extends PgSelect>(select: T, table: typeof delivery | typeof intakeResult, on: SQL) => select.innerJoin(table, on) as unknown as T;
   const joinsFor = <T extends PgSelect>(select: T): T => {
-    let joined = select;
-    if (searching || query.sort === 'deliveredAt') joined = join(joined, delivery, eq(delivery.id, disputeCase.deliveryId));
-    if (query.sort === 'value') joined = join(joined, intakeResult, eq(intakeResult.id, disputeCase.intakeResultId));
+    const joined = query.sort === 'value' ? (select.innerJoin(intakeResult, eq(intakeResult.id, disputeCase.intakeResultId)) as unknown as T) : select;
     return joined.where(where) as T;
   };
 

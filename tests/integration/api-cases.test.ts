@@ -1,7 +1,7 @@
 import { beforeAll, describe, expect, it } from 'vitest';
 import { eq } from 'drizzle-orm';
 import { getDb } from '@/db/client';
-import { disputeCase } from '@/db/schema';
+import { delivery, disputeCase } from '@/db/schema';
 import { GET as listRoute } from '@/app/api/v1/cases/route';
 import { GET as caseRoute } from '@/app/api/v1/cases/[caseId]/route';
 import { createOrganisation } from '@/db/seed/factories';
@@ -221,6 +221,31 @@ describe('filters and paging', () => {
     const nothing = await listBody('plant', '?q=no-such-farm-anywhere');
     expect(nothing.total).toBe(0);
     expect(nothing.items).toEqual([]);
+  });
+
+  it('searches by delivery reference and sorts by the time the delivery was received', async () => {
+    const rows = await getDb().select({ id: disputeCase.id, deliveryId: disputeCase.deliveryId }).from(disputeCase);
+    const deliveries = await getDb().select({ id: delivery.id, reference: delivery.reference, receivedAt: delivery.receivedAt }).from(delivery);
+    const deliveryOf = new Map(rows.map((r) => [r.id, deliveries.find((d) => d.id === r.deliveryId)!]));
+
+    const target = byStatus('review');
+    const reference = deliveryOf.get(target.id)!.reference;
+    const byReference = await listBody('plant', `?q=${encodeURIComponent(reference.toLowerCase())}`);
+    expect(byReference.items.map((i) => i.id)).toEqual([target.id]);
+    expect(byReference.items[0].deliveryReference).toBe(reference);
+
+    const sorted = await listBody('plant', '?pageSize=100&sort=deliveredAt&order=asc');
+    const expected = [...sorted.items].sort((a, b) => deliveryOf.get(a.id)!.receivedAt.getTime() - deliveryOf.get(b.id)!.receivedAt.getTime() || b.number.localeCompare(a.number));
+    expect(sorted.items.map((i) => i.id)).toEqual(expected.map((i) => i.id));
+    expect(sorted.items.map((i) => i.deliveredAt)).toEqual(expected.map((i) => deliveryOf.get(i.id)!.receivedAt.toISOString()));
+  });
+
+  it('refuses a case whose copy of its delivery’s reference, farm or time of receipt differs from the delivery', async () => {
+    const target = byStatus('review');
+    for (const change of [{ deliveryReference: 'D-EDITED' }, { deliveredAt: new Date('2020-01-01T00:00:00Z') }]) {
+      const refused = await getDb().update(disputeCase).set(change).where(eq(disputeCase.id, target.id)).catch((error: unknown) => error);
+      expect(refused).toMatchObject({ cause: { code: '23503', constraint: 'dispute_case_delivery_facts_fk' } });
+    }
   });
 
   it('treats LIKE wildcards in the search text literally', async () => {
