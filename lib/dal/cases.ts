@@ -2,7 +2,7 @@ import 'server-only';
 import { and, asc, count, desc, eq, ilike, inArray, or, sql, type SQL } from 'drizzle-orm';
 import { alias, type PgSelect } from 'drizzle-orm/pg-core';
 import type { DbOrTx } from '@/db/client';
-import { delivery, disputeCase, intakeResult, organisation, supplierFarm, type CaseStatus } from '@/db/schema';
+import { disputeCase, intakeResult, organisation, supplierFarm, type CaseStatus } from '@/db/schema';
 import type { Actor } from '@/lib/auth/actor';
 import { AppError } from '@/lib/errors';
 import { can } from '@/lib/auth/permissions';
@@ -103,8 +103,8 @@ export async function listCases(db: DbOrTx, actor: Actor, query: CaseListQuery, 
             status: disputeCase.status,
             supplierName: supplierOrg.name,
             farmName: supplierFarm.name,
-            deliveryReference: delivery.reference,
-            deliveredAt: delivery.receivedAt,
+            deliveryReference: disputeCase.deliveryReference,
+            deliveredAt: disputeCase.deliveredAt,
             verdict: intakeResult.verdict,
             valueTenthMilliC: intakeResult.valueTenthMilliC,
             amountMinor: intakeResult.amountMinor,
@@ -115,8 +115,7 @@ export async function listCases(db: DbOrTx, actor: Actor, query: CaseListQuery, 
             retestSubmittedAt: disputeCase.retestSubmittedAt,
           })
           .from(disputeCase)
-          .innerJoin(delivery, eq(delivery.id, disputeCase.deliveryId))
-          .innerJoin(supplierFarm, eq(supplierFarm.id, delivery.farmId))
+          .innerJoin(supplierFarm, eq(supplierFarm.id, disputeCase.farmId))
           .innerJoin(supplierOrg, eq(supplierOrg.id, disputeCase.supplierOrganisationId))
           .innerJoin(intakeResult, eq(intakeResult.id, disputeCase.intakeResultId))
           .leftJoin(labOrg, eq(labOrg.id, disputeCase.labOrganisationId))

@@ -1,5 +1,5 @@
 import 'server-only';
-import { and, asc, inArray, sql } from 'drizzle-orm';
+import { and, asc, eq, inArray, sql } from 'drizzle-orm';
 import type { DbOrTx } from '@/db/client';
 import { outgoingMail, user } from '@/db/schema';
 import type { Audience } from '@/lib/cases/lifecycle';
@@ -21,29 +21,16 @@ function organisationFor(parties: CaseParties, audience: Audience): string | nul
   return { supplier: parties.supplierOrganisationId, plant: parties.plantOrganisationId, lab: parties.labOrganisationId, board: parties.boardOrganisationId }[audience];
 }
 
-/** The addresses of the people of one party of a case. */
+/** The addresses of the people of one party of a case, for mail sent at once (the decision letter). */
 export async function recipientsOf(db: DbOrTx, parties: CaseParties, audience: Audience): Promise<string[]> {
-  return (await recipientsByAudience(db, parties, [audience])).get(audience) ?? [];
-}
-
-/** The addresses of the people of several parties of a case, in one query. */
-async function recipientsByAudience(db: DbOrTx, parties: CaseParties, audiences: readonly Audience[]): Promise<Map<Audience, string[]>> {
-  const wanted = audiences.flatMap((audience) => {
-    const organisationId = organisationFor(parties, audience);
-    return organisationId ? [{ audience, organisationId }] : [];
-  });
-  const found = new Map<Audience, string[]>();
-  if (wanted.length === 0) return found;
+  const organisationId = organisationFor(parties, audience);
+  if (!organisationId) return [];
   const rows = await db
-    .select({ email: user.email, organisationId: user.organisationId, role: user.role })
+    .select({ email: user.email })
     .from(user)
-    .where(and(inArray(user.organisationId, [...new Set(wanted.map((w) => w.organisationId))]), inArray(user.role, [...new Set(wanted.flatMap((w) => rolesFor[w.audience]))])))
+    .where(and(eq(user.organisationId, organisationId), inArray(user.role, rolesFor[audience])))
     .orderBy(asc(user.email));
-  for (const { audience, organisationId } of wanted) {
-    const emails = rows.filter((r) => r.organisationId === organisationId && r.role !== null && rolesFor[audience].includes(r.role)).map((r) => r.email);
-    found.set(audience, emails);
-  }
-  return found;
+  return rows.map((r) => r.email);
 }
 
 export type CaseNotice = { template: string; subject: string; headline: string; lines: string[]; actionLabel?: string };

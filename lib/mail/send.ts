@@ -21,7 +21,7 @@ export type OutgoingMessage = {
 /**
  * Records the message, then hands it to SMTP at once: for messages the user waits for (sign-in links)
  * and those with attachments, which are not kept. Case notices are queued in their change's
- * transaction instead (queueMail). A failed hand-over is recorded, not thrown: the change that caused
+ * transaction instead (notifyCase, queueMail). A failed hand-over is recorded, not thrown: the change that caused
  * the mail has already committed, and the scheduled job retries what failed (retryFailedMail).
  */
 export async function sendMail(message: OutgoingMessage): Promise<{ id: string; status: 'sent' | 'failed' }> {
