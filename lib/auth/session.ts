@@ -5,12 +5,42 @@ import { redirect } from 'next/navigation';
 import { getDb } from '@/db/client';
 import { AppError } from '@/lib/errors';
 import { organisationById } from '@/lib/dal/organisations';
+import { sessionWithOwner, type SessionWithOwner } from '@/lib/dal/sessions';
 import { getAuth } from './auth';
 import type { Actor } from './actor';
-import { can, isRole, type Action, type Resource } from './permissions';
+import { readSessionCookie, usableAsRead } from './session-fast-path';
+import { can, isRole, type Action, type Resource, type Role } from './permissions';
 
-/** Resolves the signed-in actor from request headers, or null; a banned or role-less user is nobody. */
+/**
+ * Resolves the signed-in actor from request headers, or null; a banned or role-less user is nobody.
+ * The plain case (a validly signed cookie naming a live session that needs no refresh) is one
+ * read; every other case goes through better-auth, which also clears or renews the cookie.
+ */
 export async function actorFromHeaders(requestHeaders: Headers): Promise<Actor | null> {
+  const context = await getAuth().$context;
+  const cookie = readSessionCookie(requestHeaders.get('cookie'), context.authCookies.sessionToken.name, context.secret);
+  if (cookie.kind === 'none') return null;
+  if (cookie.kind === 'signed') {
+    const found = await sessionWithOwner(getDb(), cookie.token);
+    if (found && usableAsRead(found, context.sessionConfig, Date.now())) return isRole(found.role) ? actorOf(found, found.role) : null;
+  }
+  return actorThroughBetterAuth(requestHeaders);
+}
+
+function actorOf(found: SessionWithOwner, role: Role): Actor {
+  return {
+    userId: found.userId,
+    sessionId: found.sessionId,
+    name: found.name,
+    email: found.email,
+    role,
+    organisationId: found.organisationId,
+    organisationName: found.organisationName,
+    organisationKind: found.organisationKind,
+  };
+}
+
+async function actorThroughBetterAuth(requestHeaders: Headers): Promise<Actor | null> {
   const found = await getAuth().api.getSession({ headers: requestHeaders });
   if (!found) return null;
   const { user, session } = found;

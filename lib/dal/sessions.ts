@@ -1,10 +1,37 @@
 import 'server-only';
 import { and, desc, eq, gt, ne } from 'drizzle-orm';
 import type { Db } from '@/db/client';
-import { session } from '@/db/schema';
+import { organisation, session, user } from '@/db/schema';
 import type { Actor } from '@/lib/auth/actor';
 import { recordAudit } from '@/lib/audit/record';
 import { AppError } from '@/lib/errors';
+
+/**
+ * The session a token names, with its user and organisation, in one read: what every signed-in
+ * request needs to know who is asking. Null when no session has that token.
+ */
+export async function sessionWithOwner(db: Db, token: string) {
+  const [row] = await db
+    .select({
+      sessionId: session.id,
+      expiresAt: session.expiresAt,
+      userId: user.id,
+      name: user.name,
+      email: user.email,
+      role: user.role,
+      banned: user.banned,
+      organisationId: organisation.id,
+      organisationName: organisation.name,
+      organisationKind: organisation.kind,
+    })
+    .from(session)
+    .innerJoin(user, eq(user.id, session.userId))
+    .innerJoin(organisation, eq(organisation.id, user.organisationId))
+    .where(eq(session.token, token));
+  return row ?? null;
+}
+
+export type SessionWithOwner = NonNullable<Awaited<ReturnType<typeof sessionWithOwner>>>;
 
 /** The actor's own live sessions; the session token itself never leaves the server. */
 export async function listOwnSessions(db: Db, actor: Actor) {
