@@ -1,5 +1,6 @@
 // The benchmark suite: `npm run bench` (flags: --quick for short runs while developing,
-// --skip-build to reuse the last build in .next-bench). Budgets are printed, never asserted in tests.
+// --skip-build to reuse the last build in .next-bench, --only=reads or --only=writes for one half
+// while working on it). Budgets are printed, never asserted in tests.
 // Writes bench/results.json (not committed). See "Benchmarks" in DEVELOPERS.md.
 import { spawn } from 'node:child_process';
 import fs from 'node:fs';
@@ -14,6 +15,9 @@ import { BENCH_DIST_DIR, buildApp, hasBuild, signIn, startServer, type RunningSe
 
 const quick = process.argv.includes('--quick');
 const skipBuild = process.argv.includes('--skip-build');
+const only = process.argv.find((a) => a.startsWith('--only='))?.slice('--only='.length);
+if (only !== undefined && only !== 'reads' && only !== 'writes') throw new Error(`--only takes reads or writes, not ${only}`);
+const runs = (half: 'reads' | 'writes') => only === undefined || only === half;
 const password = process.env.DEMO_PASSWORD || 'countersample-demo';
 const scale = {
   listRequests: quick ? 60 : 200,
@@ -302,7 +306,7 @@ function printTable(): void {
 }
 
 async function main(): Promise<number> {
-  const machine = { cores: os.cpus().length, node: process.version, loadAverage: os.loadavg().map((x) => Number(x.toFixed(2))), quick };
+  const machine = { cores: os.cpus().length, node: process.version, loadAverage: os.loadavg().map((x) => Number(x.toFixed(2))), quick, only: only ?? 'all' };
   log(`machine: ${machine.cores} cores, Node ${machine.node}, load average ${machine.loadAverage.join(' ')}${quick ? ' (--quick)' : ''}; logs in ${logDir}`);
 
   if (!fs.existsSync(manifestFile) || !fs.existsSync(scaleDir)) {
@@ -319,23 +323,27 @@ async function main(): Promise<number> {
     log(`built in ${buildApp(path.join(logDir, 'build.log')).toFixed(0)} s`);
   }
 
-  log(`assess: ${scale.assessSeconds} s loop on one thread`);
-  const assessFigures = assessRate({ seconds: scale.assessSeconds });
-  details.assess = assessFigures;
-  row('assess proposals/s, one core', assessFigures.perSecond.toFixed(0), '≥ 50000/s', assessFigures.perSecond >= 50_000);
+  if (runs('reads')) {
+    log(`assess: ${scale.assessSeconds} s loop on one thread`);
+    const assessFigures = assessRate({ seconds: scale.assessSeconds });
+    details.assess = assessFigures;
+    row('assess proposals/s, one core', assessFigures.perSecond.toFixed(0), '≥ 50000/s', assessFigures.perSecond >= 50_000);
+  }
 
   const sink = await startMailSink();
   try {
-    const { load, list } = await readPhase(sink);
-    await directPhase(list);
-    await writePhase(sink);
-    await postgresPhase(sink, load);
+    if (runs('reads')) {
+      const { load, list } = await readPhase(sink);
+      await directPhase(list);
+      if (runs('writes')) await writePhase(sink);
+      await postgresPhase(sink, load);
+    } else await writePhase(sink);
   } finally {
     await sink.close();
   }
 
   printTable();
-  console.log(`\n${machine.cores} cores, Node ${machine.node}, load average at start ${machine.loadAverage.join(' ')}${quick ? '; --quick run' : ''}.`);
+  console.log(`\n${machine.cores} cores, Node ${machine.node}, load average at start ${machine.loadAverage.join(' ')}${quick ? '; --quick run' : ''}${only ? `; --only=${only}` : ''}.`);
   const results = { at: new Date().toISOString(), machine, rows, details };
   fs.writeFileSync(path.join(root, 'bench', 'results.json'), `${JSON.stringify(results, null, 2)}\n`);
   log('wrote bench/results.json');
