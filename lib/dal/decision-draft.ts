@@ -1,6 +1,7 @@
 import 'server-only';
 import { eq } from 'drizzle-orm';
 import type { DbOrTx } from '@/db/client';
+import { pipelined } from '@/db/pipeline';
 import { delivery, intakeResult } from '@/db/schema';
 import type { Assessment, AssessmentInput } from '@/lib/arbitration';
 import type { BindingOutcome } from '@/lib/decision/labels';
@@ -18,11 +19,12 @@ export type DecisionProposal = { input: AssessmentInput; assessment: Assessment 
  * A proposal the caller has already worked out for this case row (`known`) is not computed again.
  */
 export async function decisionBasis(db: DbOrTx, caseRow: CaseRow, known?: Awaited<ReturnType<typeof proposalFor>>) {
-  const [rules, proposal, [load], [result]] = await Promise.all([
-    rulesVersion(db, caseRow.rulesVersionId),
-    known ?? proposalFor(db, caseRow),
-    db.select({ volumeLitres: delivery.volumeLitres }).from(delivery).where(eq(delivery.id, caseRow.deliveryId)),
-    db.select().from(intakeResult).where(eq(intakeResult.id, caseRow.intakeResultId)),
+  // Pipelined, not Promise.all: signing asks for this inside its transaction, where a PostgreSQL client takes one statement at a time.
+  const [rules, proposal, [load], [result]] = await pipelined([
+    () => rulesVersion(db, caseRow.rulesVersionId),
+    () => (known ? Promise.resolve(known) : proposalFor(db, caseRow)),
+    () => db.select({ volumeLitres: delivery.volumeLitres }).from(delivery).where(eq(delivery.id, caseRow.deliveryId)),
+    () => db.select().from(intakeResult).where(eq(intakeResult.id, caseRow.intakeResultId)),
   ]);
   if (!rules || !proposal || !load || !result) throw new Error(`Case ${caseRow.number} is missing its rules, proposal, delivery or intake result`);
   const { money, currency } = rules.rules;

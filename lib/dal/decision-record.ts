@@ -1,6 +1,7 @@
 import 'server-only';
 import { eq, inArray, or } from 'drizzle-orm';
 import type { DbOrTx } from '@/db/client';
+import { pipelined } from '@/db/pipeline';
 import {
   attachment,
   calibrationCheck,
@@ -37,34 +38,37 @@ export function asStoredJson<T>(value: T): T {
 export async function caseEvidence(db: DbOrTx, caseId: string): Promise<CaseEvidence> {
   const [row] = await db.select().from(disputeCase).where(eq(disputeCase.id, caseId));
   if (!row) throw new Error(`Case ${caseId} does not exist`);
-  const [[rules], [load], [result]] = await Promise.all([
-    db.select().from(schemeRules).where(eq(schemeRules.id, row.rulesVersionId)),
-    db
-      .select({ delivery, farm: { id: supplierFarm.id, name: supplierFarm.name, herdCode: supplierFarm.herdCode } })
-      .from(delivery)
-      .innerJoin(supplierFarm, eq(supplierFarm.id, delivery.farmId))
-      .where(eq(delivery.id, row.deliveryId)),
-    db.select().from(intakeResult).where(eq(intakeResult.id, row.intakeResultId)),
+  // Pipelined, not Promise.all: sealing reads this inside its transaction, where a PostgreSQL client takes one statement at a time.
+  const [[rules], [load], [result]] = await pipelined([
+    () => db.select().from(schemeRules).where(eq(schemeRules.id, row.rulesVersionId)),
+    () =>
+      db
+        .select({ delivery, farm: { id: supplierFarm.id, name: supplierFarm.name, herdCode: supplierFarm.herdCode } })
+        .from(delivery)
+        .innerJoin(supplierFarm, eq(supplierFarm.id, delivery.farmId))
+        .where(eq(delivery.id, row.deliveryId)),
+    () => db.select().from(intakeResult).where(eq(intakeResult.id, row.intakeResultId)),
   ]);
   if (!rules || !load || !result) throw new Error(`Case ${row.number} is missing its rules, delivery or intake result`);
 
-  const [sets, samples, files, notes] = await Promise.all([
-    db
-      .select({ set: measurementSet, instrument: { id: instrument.id, serialNumber: instrument.serialNumber, description: instrument.description } })
-      .from(measurementSet)
-      .innerJoin(instrument, eq(instrument.id, measurementSet.instrumentId))
-      .where(or(eq(measurementSet.caseId, row.id), eq(measurementSet.id, result.measurementSetId))),
-    db.select().from(sample).where(or(eq(sample.deliveryId, row.deliveryId), eq(sample.caseId, row.id))),
-    db.select().from(attachment).where(eq(attachment.caseId, row.id)),
-    db.select().from(note).where(eq(note.caseId, row.id)),
+  const [sets, samples, files, notes] = await pipelined([
+    () =>
+      db
+        .select({ set: measurementSet, instrument: { id: instrument.id, serialNumber: instrument.serialNumber, description: instrument.description } })
+        .from(measurementSet)
+        .innerJoin(instrument, eq(instrument.id, measurementSet.instrumentId))
+        .where(or(eq(measurementSet.caseId, row.id), eq(measurementSet.id, result.measurementSetId))),
+    () => db.select().from(sample).where(or(eq(sample.deliveryId, row.deliveryId), eq(sample.caseId, row.id))),
+    () => db.select().from(attachment).where(eq(attachment.caseId, row.id)),
+    () => db.select().from(note).where(eq(note.caseId, row.id)),
   ]);
   const setIds = sets.map((s) => s.set.id);
   const checkIds = sets.map((s) => s.set.calibrationCheckId).filter((id): id is string => id !== null);
   const sampleIds = samples.map((s) => s.id);
-  const [readings, checks, custody] = await Promise.all([
-    setIds.length ? db.select().from(reading).where(inArray(reading.measurementSetId, setIds)) : [],
-    checkIds.length ? db.select().from(calibrationCheck).where(inArray(calibrationCheck.id, checkIds)) : [],
-    sampleIds.length ? db.select().from(custodyEvent).where(inArray(custodyEvent.sampleId, sampleIds)) : [],
+  const [readings, checks, custody] = await pipelined([
+    () => (setIds.length ? db.select().from(reading).where(inArray(reading.measurementSetId, setIds)) : Promise.resolve([])),
+    () => (checkIds.length ? db.select().from(calibrationCheck).where(inArray(calibrationCheck.id, checkIds)) : Promise.resolve([])),
+    () => (sampleIds.length ? db.select().from(custodyEvent).where(inArray(custodyEvent.sampleId, sampleIds)) : Promise.resolve([])),
   ]);
 
   const organisationIds = new Set<string>([row.supplierOrganisationId, row.plantOrganisationId, row.boardOrganisationId]);
