@@ -3,6 +3,7 @@ import { and, eq, inArray } from 'drizzle-orm';
 import { z } from 'zod';
 import type { Db } from '@/db/client';
 import { pipelined } from '@/db/pipeline';
+import { countedOf, writesAsOne } from '@/db/writes-as-one';
 import { disputeCase, type CaseStatus } from '@/db/schema';
 import type { Actor } from '@/lib/auth/actor';
 import { can } from '@/lib/auth/permissions';
@@ -11,7 +12,7 @@ import { transitions, type TransitionName } from '@/lib/cases/lifecycle';
 import { transitionSchemas, type TransitionInputs } from '@/lib/cases/schemas';
 import { caseStatusLabel } from '@/lib/cases/labels';
 import { AppError, invalidInput } from '@/lib/errors';
-import { notifyCase } from '@/lib/mail/case-mails';
+import { caseNoticeInsert } from '@/lib/mail/case-mails';
 import { mailAfterCommit } from '@/lib/mail/outbox';
 import { currentSample } from './case-samples';
 import { caseVisibility, holdsRoleOn } from './case-scope';
@@ -80,15 +81,16 @@ export async function runTransition<N extends TransitionName>(
     if (!rules) throw new Error(`Case ${locked.number} names rules version ${locked.rulesVersionId}, which is missing`);
     const result = await effects[name]({ tx, actor, caseRow: locked, sample, input, now, rules: rules.rules });
     const parties = { ...locked, ...result.caseChanges };
-    // Nothing below needs another's answer: one wait for all of them while the case is locked.
-    const [[updated]] = await pipelined([
-      () =>
-        tx
-          .update(disputeCase)
-          .set({ ...result.caseChanges, status: spec.to, updatedAt: now })
-          .where(and(eq(disputeCase.id, caseId), inArray(disputeCase.status, [...spec.from])))
-          .returning({ id: disputeCase.id }),
-      ...(result.writes ?? []),
+    const update = tx
+      .update(disputeCase)
+      .set({ ...result.caseChanges, status: spec.to, updatedAt: now })
+      .where(and(eq(disputeCase.id, caseId), inArray(disputeCase.status, [...spec.from])))
+      .returning({ id: disputeCase.id });
+    const notices = caseNoticeInsert(parties, spec.notify, result.notice);
+    // The case's update, the effect's inserts and the notices are one statement; the audit event
+    // follows it without waiting, so the lock waits once for the lot.
+    const [written] = await pipelined([
+      () => tx.execute(writesAsOne(update, [...(result.writes ?? []), ...(notices ? [notices] : [])])),
       () =>
         recordAudit(tx, { actorUserId: actor.userId, actorOrganisationId: actor.organisationId, origin: context.origin, at: now }, {
           action: 'case.transitioned',
@@ -97,9 +99,8 @@ export async function runTransition<N extends TransitionName>(
           caseId,
           change: { from: locked.status, to: spec.to, transition: name, detail: result.detail },
         }),
-      () => notifyCase(tx, parties, spec.notify, result.notice),
     ]);
-    if (!updated) throw new AppError('conflict', 'Someone else changed this case at the same moment. Reload it to see what happened.');
+    if (countedOf(written) !== 1) throw new AppError('conflict', 'Someone else changed this case at the same moment. Reload it to see what happened.');
     return { status: locked.status, number: locked.number };
   });
 

@@ -1,5 +1,5 @@
 import 'server-only';
-import { and, asc, eq, inArray, sql } from 'drizzle-orm';
+import { and, asc, eq, inArray, sql, type SQL } from 'drizzle-orm';
 import type { DbOrTx } from '@/db/client';
 import { outgoingMail, user } from '@/db/schema';
 import type { Audience } from '@/lib/cases/lifecycle';
@@ -38,20 +38,20 @@ export type CaseNotice = { template: string; subject: string; headline: string; 
 type AudienceMessage = Omit<QueuedMessage, 'to'>;
 
 /**
- * Queues one message per audience, addressed to that party's people, in one statement: the
+ * The statement that queues one message per audience, addressed to that party's people: the
  * addresses are looked up by the insert itself, and a party with nobody to tell gets no message.
- * Transitions send it with their other writes while the case is locked, so it must not need an
- * answer first.
+ * Null when no audience names an organisation. It needs no answer first, so a transition sends it
+ * with its other writes while the case is locked.
  */
-async function queueForAudiences(tx: DbOrTx, parties: CaseParties, audiences: readonly Audience[], message: (audience: Audience) => AudienceMessage) {
+function audienceMailsInsert(parties: CaseParties, audiences: readonly Audience[], message: (audience: Audience) => AudienceMessage): SQL | null {
   const wanted = audiences.flatMap((audience, order) => {
     const organisationId = organisationFor(parties, audience);
     if (!organisationId) return [];
     const m = message(audience);
     return [{ order, organisation_id: organisationId, roles: rolesFor[audience], subject: m.subject, template: m.template, case_id: m.caseId ?? null, content: m.content }];
   });
-  if (wanted.length === 0) return;
-  await tx.execute(sql`
+  if (wanted.length === 0) return null;
+  return sql`
     insert into ${outgoingMail} ("to", subject, template, case_id, content)
     select r.emails, m.subject, m.template, m.case_id, m.content
     from jsonb_to_recordset(${JSON.stringify(wanted)}::jsonb) as m("order" int, organisation_id uuid, roles text[], subject text, template text, case_id uuid, content jsonb)
@@ -59,7 +59,12 @@ async function queueForAudiences(tx: DbOrTx, parties: CaseParties, audiences: re
       select array_agg(u.email order by u.email) as emails from ${user} u where u.organisation_id = m.organisation_id and u.role = any(m.roles)
     ) r
     where r.emails is not null
-    order by m."order"`);
+    order by m."order"`;
+}
+
+async function queueForAudiences(tx: DbOrTx, parties: CaseParties, audiences: readonly Audience[], message: (audience: Audience) => AudienceMessage): Promise<void> {
+  const statement = audienceMailsInsert(parties, audiences, message);
+  if (statement) await tx.execute(statement);
 }
 
 /**
@@ -68,8 +73,17 @@ async function queueForAudiences(tx: DbOrTx, parties: CaseParties, audiences: re
  * failed hand-over is recorded on the message and never undoes the change.
  */
 export function notifyCase(tx: DbOrTx, parties: CaseParties, audiences: readonly Audience[], notice: CaseNotice | ((audience: Audience) => CaseNotice)) {
+  return queueForAudiences(tx, parties, audiences, caseNoticeMessage(parties, notice));
+}
+
+/** notifyCase's statement, for a caller that sends it as part of a larger one; null when nobody is addressed. */
+export function caseNoticeInsert(parties: CaseParties, audiences: readonly Audience[], notice: CaseNotice | ((audience: Audience) => CaseNotice)): SQL | null {
+  return audienceMailsInsert(parties, audiences, caseNoticeMessage(parties, notice));
+}
+
+function caseNoticeMessage(parties: CaseParties, notice: CaseNotice | ((audience: Audience) => CaseNotice)) {
   const url = `${env().BETTER_AUTH_URL}/cases/${parties.id}`;
-  return queueForAudiences(tx, parties, audiences, (audience) => {
+  return (audience: Audience): AudienceMessage => {
     const n = typeof notice === 'function' ? notice(audience) : notice;
     return {
       subject: `${parties.number}: ${n.subject}`,
@@ -77,7 +91,7 @@ export function notifyCase(tx: DbOrTx, parties: CaseParties, audiences: readonly
       caseId: parties.id,
       content: { layout: 'case-notice', props: { greeting: 'Hello,', headline: n.headline, lines: n.lines, url, actionLabel: n.actionLabel ?? `Open ${parties.number}` } },
     };
-  });
+  };
 }
 
 /** Queues the news of a shared note for each audience, one message per party, in the note's transaction. */

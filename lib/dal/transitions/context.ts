@@ -1,3 +1,4 @@
+import type { SQLWrapper } from 'drizzle-orm';
 import type { Tx } from '@/db/client';
 import type { disputeCase } from '@/db/schema';
 import type { Actor } from '@/lib/auth/actor';
@@ -21,8 +22,8 @@ export type EffectResult = {
   detail: Record<string, unknown>;
   notice: CaseNotice | ((audience: Audience) => CaseNotice);
   /**
-   * Statements whose answers nobody needs, such as custody events: they go out together with the
-   * case's update, its audit event and its notices, so the lock waits for them once.
+   * Inserts whose answers nobody needs, such as custody events: they become part of the one
+   * statement that updates the case and queues its notices, so the lock waits for them once.
    */
-  writes?: (() => PromiseLike<unknown>)[];
+  writes?: SQLWrapper[];
 };

@@ -29,7 +29,7 @@ export async function dispatchEffect({ tx, actor, sample: retained, input, now }
     note: input.answer || null,
   });
   return {
-    writes: [() => custody],
+    writes: [custody],
     caseChanges: { labOrganisationId: lab.id },
     detail: { sampleCode: retained.code, sealNumber: input.sealNumber, laboratory: lab.name, answer: input.answer || undefined },
     notice: (audience) => ({

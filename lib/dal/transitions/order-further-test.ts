@@ -32,7 +32,7 @@ export async function orderFurtherTestEffect({ tx, actor, caseRow, input, now, r
   ]);
   const kindLabel = input.kind === 'authentic' ? 'an authentic herd sample' : 'a test by a third laboratory';
   return {
-    writes: [() => custody],
+    writes: [custody],
     // The new laboratory starts blind, with the new sample's own validity.
     caseChanges: { labOrganisationId: lab.id, retestSubmittedAt: null, decisionDueAt: null, sampleValidUntil: new Date(input.sampledAt.getTime() + rules.sample.validHours * 3_600_000) },
     detail: { kind: input.kind, laboratory: lab.name, sampleCode: input.sampleCode, reasons: input.reasons },

@@ -18,7 +18,7 @@ export async function receiveEffect({ tx, actor, sample: current, input, now, ru
     (c): c is string => c !== null,
   );
   return {
-    writes: [() => custody],
+    writes: [custody],
     detail: { sampleCode: current.code, sealIntact, frozen: input.frozen, temperature: input.temperature },
     notice: {
       template: 'case-received',

@@ -87,7 +87,7 @@ export async function submitRetestEffect({ tx, actor, caseRow, sample, input, no
   const opened = tx.insert(custodyEvent).values({ sampleId: sample.id, kind: 'opened', at: testedAt, actorUserId: actor.userId, organisationId: actor.organisationId, location: device.description, sealIntact: null, note: 'Opened for the retest.' });
 
   return {
-    writes: [() => readings, () => opened],
+    writes: [readings, opened],
     caseChanges: { retestSubmittedAt: now, decisionDueAt: addBusinessDays(now, rules.deadlines.decisionWorkingDays) },
     detail: { measurementSetId: set.id, readings: values.length, used: result.used, basis: result.basis, result: result.value, calibrationWithin: calibration.within },
     notice: (audience) => ({
