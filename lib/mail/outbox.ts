@@ -6,6 +6,7 @@ import { outgoingMail } from '@/db/schema';
 import type { QueuedContent } from './queued-content';
 import type { BatchMessage, BatchOutcome } from './deliver-batch';
 import { deliverBatchOffThread } from './delivery-thread';
+import { deliveryWait } from './delivery-timing';
 import { STUCK_QUEUED_MS } from './send';
 
 export type QueuedMessage = { to: string[]; subject: string; template: string; caseId?: string; content: QueuedContent };
@@ -94,18 +95,16 @@ export async function deliverQueuedMail(now: () => Date = () => new Date()): Pro
   }
 }
 
-// Commits come in bursts: a moment's wait before claiming lets one batch carry the notices of many
-// commits, so the claim and the record of outcomes run once for them all rather than for each.
-const COLLECT_MS = 200;
-
-const globalForOutbox = globalThis as unknown as { __countersampleOutbox?: { running: Promise<void> | null; again: boolean } };
+const globalForOutbox = globalThis as unknown as { __countersampleOutbox?: { running: Promise<void> | null; again: boolean; lastCommitAt: number } };
 
 /**
  * Starts delivery in the background, or asks a running delivery to look again when it is done: one
- * worker per process, so bursts of commits do not start a worker each. Returns that run.
+ * worker per process, so bursts of commits do not start a worker each. It waits for a pause in the
+ * commits first (lib/mail/delivery-timing.ts). Returns that run.
  */
 export function deliverQueuedSoon(): Promise<void> {
-  const state = (globalForOutbox.__countersampleOutbox ??= { running: null, again: false });
+  const state = (globalForOutbox.__countersampleOutbox ??= { running: null, again: false, lastCommitAt: 0 });
+  state.lastCommitAt = Date.now();
   if (state.running) {
     state.again = true;
     return state.running;
@@ -114,7 +113,12 @@ export function deliverQueuedSoon(): Promise<void> {
     do {
       state.again = false;
       try {
-        if (process.env.MAIL_DELIVERY !== 'inline') await new Promise((resolve) => setTimeout(resolve, COLLECT_MS));
+        if (process.env.MAIL_DELIVERY !== 'inline') {
+          const wokenAt = Date.now();
+          for (let wait = deliveryWait(wokenAt, wokenAt, state.lastCommitAt); wait > 0; wait = deliveryWait(Date.now(), wokenAt, state.lastCommitAt)) {
+            await new Promise((resolve) => setTimeout(resolve, wait));
+          }
+        }
         await deliverQueuedMail();
       } catch (error) {
         // The messages stay queued; the next commit or the scheduled job delivers them.
