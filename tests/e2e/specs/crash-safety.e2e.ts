@@ -177,14 +177,20 @@ function bodyFor(transition: Op['transition'], c: Seeded['cases'][number]) {
  * server with SIGKILL as soon as `killAfterAcks` transitions have been acknowledged, while others
  * are still in flight. Returns what every request got back.
  */
-async function burst(child: ChildProcess, cases: Seeded['cases'], killAfterAcks: number, concurrency: number): Promise<Op[]> {
+// Queued notices go out once the commits pause (lib/mail/delivery-timing.ts); a lull this long lets
+// the background delivery try the relay that is down before the burst goes on.
+const LULL_MS = 1500;
+
+async function burst(child: ChildProcess, cases: Seeded['cases'], killAfterAcks: number, concurrency: number, lullAfterAcks?: number): Promise<Op[]> {
   const ops: Op[] = [];
   let acked = 0;
   let killed: Promise<void> | null = null;
+  let lull: Promise<void> | null = null;
   const queue = [...cases];
   const worker = async () => {
     for (let c = queue.shift(); c && !killed; c = queue.shift()) {
       for (const [transition, by] of [['dispatch', 'plant'], ['receive', 'lab'], ['withdraw', c.supplier]] as const) {
+        if (lull) await lull;
         if (killed) return;
         try {
           const response = await fetch(`http://127.0.0.1:${appPort}/api/v1/cases/${c.id}/transitions/${transition}`, {
@@ -197,6 +203,7 @@ async function burst(child: ChildProcess, cases: Seeded['cases'], killAfterAcks:
           if (response.ok) {
             ops.push({ caseId: c.id, transition, outcome: 'acked', status: response.status });
             acked += 1;
+            if (lullAfterAcks !== undefined && acked === lullAfterAcks) lull = new Promise((resolve) => setTimeout(resolve, LULL_MS));
             if (acked >= killAfterAcks) killed ??= killHard(child);
           } else {
             ops.push({ caseId: c.id, transition, outcome: 'refused', status: response.status });
@@ -228,13 +235,13 @@ beforeAll(async () => {
 
   const half = Math.ceil(seeded.cases.length / 2);
   const plan = [
-    { cases: seeded.cases.slice(0, half), killAfterAcks: Math.ceil(half * 1.5), concurrency: 4 },
+    { cases: seeded.cases.slice(0, half), killAfterAcks: Math.ceil(half * 1.5), concurrency: 4, lullAfterAcks: 6 },
     { cases: seeded.cases.slice(half), killAfterAcks: 4, concurrency: 8 },
   ];
   for (const round of plan) {
     server = await startServer();
     const pid = server.pid!;
-    const ops = await burst(server, round.cases, round.killAfterAcks, round.concurrency);
+    const ops = await burst(server, round.cases, round.killAfterAcks, round.concurrency, round.lullAfterAcks);
     allOps.push(...ops);
     // The killed server could not remove its lock: the next start must take the stale one over.
     const lock = fs.readFileSync(`${dataDir}.lock`, 'utf8');
