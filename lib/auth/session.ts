@@ -5,11 +5,11 @@ import { redirect } from 'next/navigation';
 import { getDb } from '@/db/client';
 import { AppError } from '@/lib/errors';
 import { organisationById } from '@/lib/dal/organisations';
-import { sessionWithOwner, type SessionWithOwner } from '@/lib/dal/sessions';
+import { actorOfSession, sessionWithOwner } from '@/lib/dal/sessions';
 import { getAuth } from './auth';
 import type { Actor } from './actor';
 import { readSessionCookie, usableAsRead } from './session-fast-path';
-import { can, isRole, type Action, type Resource, type Role } from './permissions';
+import { can, isRole, type Action, type Resource } from './permissions';
 
 /**
  * Resolves the signed-in actor from request headers, or null; a banned or role-less user is nobody.
@@ -22,22 +22,9 @@ export async function actorFromHeaders(requestHeaders: Headers): Promise<Actor |
   if (cookie.kind === 'none') return null;
   if (cookie.kind === 'signed') {
     const found = await sessionWithOwner(getDb(), cookie.token);
-    if (found && usableAsRead(found, context.sessionConfig, Date.now())) return isRole(found.role) ? actorOf(found, found.role) : null;
+    if (found && usableAsRead(found, context.sessionConfig, Date.now())) return actorOfSession(found);
   }
   return actorThroughBetterAuth(requestHeaders);
-}
-
-function actorOf(found: SessionWithOwner, role: Role): Actor {
-  return {
-    userId: found.userId,
-    sessionId: found.sessionId,
-    name: found.name,
-    email: found.email,
-    role,
-    organisationId: found.organisationId,
-    organisationName: found.organisationName,
-    organisationKind: found.organisationKind,
-  };
 }
 
 async function actorThroughBetterAuth(requestHeaders: Headers): Promise<Actor | null> {

@@ -1,10 +1,10 @@
 import 'server-only';
-import { and, asc, eq, gt, isNull } from 'drizzle-orm';
+import { and, asc, eq, isNull } from 'drizzle-orm';
 import { alias } from 'drizzle-orm/pg-core';
 import type { Db, DbOrTx } from '@/db/client';
-import { attachment, disputeCase, organisation, session, user, type CaseStatus } from '@/db/schema';
+import { attachment, disputeCase, organisation, user, type CaseStatus } from '@/db/schema';
 import type { Actor } from '@/lib/auth/actor';
-import { can, isRole } from '@/lib/auth/permissions';
+import { can } from '@/lib/auth/permissions';
 import { recordAudit } from '@/lib/audit/record';
 import { AppError, invalidInput } from '@/lib/errors';
 import { formatDateTime } from '@/lib/format/dates';
@@ -13,6 +13,7 @@ import { removeAttachmentSchema, type UploadMetadata } from '@/lib/evidence/sche
 import { caseVisibility, isBlindFor } from './case-scope';
 import { assertCaseNotSealed } from './decision-guard';
 import { findVisibleCase } from './cases';
+import { actorOfSession, liveSessionOf } from './sessions';
 
 const remover = alias(user, 'remover');
 const WITHDRAWN_MESSAGE = 'The dispute was withdrawn, so its file is closed: no evidence can be added or withdrawn.';
@@ -30,24 +31,9 @@ export function closedReason(status: CaseStatus): string | null {
  * session is still live and the account still holds a role that may upload.
  */
 export async function uploaderActor(db: DbOrTx, metadata: UploadMetadata, now = new Date()): Promise<Actor | null> {
-  const [row] = await db
-    .select({
-      userId: user.id,
-      name: user.name,
-      email: user.email,
-      role: user.role,
-      banned: user.banned,
-      organisationId: organisation.id,
-      organisationName: organisation.name,
-      organisationKind: organisation.kind,
-    })
-    .from(session)
-    .innerJoin(user, eq(user.id, session.userId))
-    .innerJoin(organisation, eq(organisation.id, user.organisationId))
-    .where(and(eq(session.id, metadata.sessionId), eq(session.userId, metadata.userId), gt(session.expiresAt, now)));
-  if (!row || row.banned || !isRole(row.role) || row.organisationId !== metadata.organisationId) return null;
-  const { banned: _banned, role, ...rest } = row;
-  return { ...rest, role, sessionId: metadata.sessionId };
+  const row = await liveSessionOf(db, metadata, now);
+  const actor = row ? actorOfSession(row) : null;
+  return actor && actor.organisationId === metadata.organisationId ? actor : null;
 }
 
 /** For the upload middleware and again on completion: the actor may add evidence to this case now. */

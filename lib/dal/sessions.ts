@@ -1,17 +1,15 @@
 import 'server-only';
-import { and, desc, eq, gt, ne } from 'drizzle-orm';
-import type { Db } from '@/db/client';
+import { and, desc, eq, gt, ne, type SQL } from 'drizzle-orm';
+import type { Db, DbOrTx } from '@/db/client';
 import { organisation, session, user } from '@/db/schema';
 import type { Actor } from '@/lib/auth/actor';
+import { isRole } from '@/lib/auth/permissions';
 import { recordAudit } from '@/lib/audit/record';
 import { AppError } from '@/lib/errors';
 
-/**
- * The session a token names, with its user and organisation, in one read: what every signed-in
- * request needs to know who is asking. Null when no session has that token.
- */
-export async function sessionWithOwner(db: Db, token: string) {
-  const [row] = await db
+/** Sessions that meet `where`, each with its user and organisation, in one read. */
+function sessionsWithOwner(db: DbOrTx, where: SQL | undefined) {
+  return db
     .select({
       sessionId: session.id,
       expiresAt: session.expiresAt,
@@ -27,11 +25,29 @@ export async function sessionWithOwner(db: Db, token: string) {
     .from(session)
     .innerJoin(user, eq(user.id, session.userId))
     .innerJoin(organisation, eq(organisation.id, user.organisationId))
-    .where(eq(session.token, token));
+    .where(where);
+}
+
+export type SessionWithOwner = Awaited<ReturnType<typeof sessionsWithOwner>>[number];
+
+/** The session a token names, with its user and organisation: what every signed-in request needs to know who is asking. */
+export async function sessionWithOwner(db: DbOrTx, token: string): Promise<SessionWithOwner | null> {
+  const [row] = await sessionsWithOwner(db, eq(session.token, token));
   return row ?? null;
 }
 
-export type SessionWithOwner = NonNullable<Awaited<ReturnType<typeof sessionWithOwner>>>;
+/** One session of one user, while it is live. */
+export async function liveSessionOf(db: DbOrTx, ids: { sessionId: string; userId: string }, now: Date): Promise<SessionWithOwner | null> {
+  const [row] = await sessionsWithOwner(db, and(eq(session.id, ids.sessionId), eq(session.userId, ids.userId), gt(session.expiresAt, now)));
+  return row ?? null;
+}
+
+/** Who a session's owner is as an actor; nobody when banned or without a role of the product. */
+export function actorOfSession(row: SessionWithOwner): Actor | null {
+  if (row.banned || !isRole(row.role)) return null;
+  const { expiresAt: _expiresAt, banned: _banned, role, ...rest } = row;
+  return { ...rest, role };
+}
 
 /** The actor's own live sessions; the session token itself never leaves the server. */
 export async function listOwnSessions(db: Db, actor: Actor) {
